@@ -1,0 +1,99 @@
+// The repair workflow: lanes of the Bench board and the moves allowed between them.
+// Plain TypeScript with no framework imports: the API enforces it, the client uses it to show
+// which lanes a card may go to. Source: the product brief, section 3 (our own design).
+
+export const STATES = ['intake', 'diagnosis', 'reflash', 'repair', 'bench_test', 'return', 'closed'] as const;
+export type TicketState = (typeof STATES)[number];
+
+/** Lanes shown on the Bench board, in board order (closed tickets leave the board). */
+export const BOARD_LANES: readonly TicketState[] = ['intake', 'diagnosis', 'reflash', 'repair', 'bench_test', 'return'];
+
+export const STATE_LABELS: Record<TicketState, string> = {
+  intake: 'Intake',
+  diagnosis: 'Diagnosis',
+  reflash: 'Reflash',
+  repair: 'Repair',
+  bench_test: 'Bench test',
+  return: 'Return',
+  closed: 'Closed',
+};
+
+export const ALLOWED_MOVES: Record<TicketState, readonly TicketState[]> = {
+  intake: ['diagnosis'],
+  diagnosis: ['reflash', 'repair', 'return'],
+  reflash: ['bench_test', 'repair'],
+  repair: ['bench_test'],
+  bench_test: ['return', 'repair'],
+  return: ['closed'],
+  closed: [],
+};
+
+export function isState(value: unknown): value is TicketState {
+  return typeof value === 'string' && (STATES as readonly string[]).includes(value);
+}
+
+/** What the guards need to know about a ticket. Later features add facts (flash attempts, test sheets, fees). */
+export interface MoveFacts {
+  state: TicketState;
+  reflashConsent: boolean;
+  /** A flash attempt recorded as "verified running" (flash attempts arrive with the reflash feature). */
+  hasVerifiedFlash: boolean;
+  /** A passed test sheet (test sheets arrive with the bench-test feature). */
+  hasPassedTestSheet: boolean;
+  /** A failed test sheet. */
+  hasFailedTestSheet: boolean;
+  /** Fees settled or waived, and the returned-items checklist done (arrive with fees and return). */
+  readyToClose: boolean;
+  /** A quote above the club's threshold waits for the owner. */
+  awaitingApproval: boolean;
+}
+
+export type MoveCheck = { allowed: true } | { allowed: false; reason: string };
+
+/** Decides whether a ticket may move from its state to `to`, and if not, why (in words for the user). */
+export function checkMove(facts: MoveFacts, to: TicketState, note?: string): MoveCheck {
+  const from = facts.state;
+  if (from === to) return { allowed: false, reason: `The ticket is already in ${STATE_LABELS[to]}.` };
+  if (!ALLOWED_MOVES[from].includes(to)) {
+    const options = ALLOWED_MOVES[from].map((s) => STATE_LABELS[s]).join(', ');
+    return {
+      allowed: false,
+      reason: `A ticket cannot go from ${STATE_LABELS[from]} to ${STATE_LABELS[to]}.` +
+        (options ? ` From ${STATE_LABELS[from]} it can go to: ${options}.` : ' Closed tickets stay closed.'),
+    };
+  }
+  if (facts.awaitingApproval && to !== 'return') {
+    return { allowed: false, reason: 'The owner has not approved the quote yet.' };
+  }
+  switch (`${from}>${to}`) {
+    case 'diagnosis>reflash':
+      if (!facts.reflashConsent) {
+        return { allowed: false, reason: 'The owner has not consented to a reflash (settings and memories may be lost). Record consent first.' };
+      }
+      break;
+    case 'diagnosis>return':
+      if (!note || note.trim().length < 3) {
+        return { allowed: false, reason: 'Say why it goes back unrepaired (no fault found, unrepairable, owner declined) in the note.' };
+      }
+      break;
+    case 'reflash>bench_test':
+      if (!facts.hasVerifiedFlash) {
+        return { allowed: false, reason: 'No flash attempt is recorded as verified running yet.' };
+      }
+      break;
+    case 'bench_test>return':
+      if (!facts.hasPassedTestSheet) return { allowed: false, reason: 'The test sheet has not passed yet.' };
+      break;
+    case 'bench_test>repair':
+      if (!facts.hasFailedTestSheet && (!note || note.trim().length < 3)) {
+        return { allowed: false, reason: 'Say what failed on the bench in the note, or record a failed test sheet.' };
+      }
+      break;
+    case 'return>closed':
+      if (!facts.readyToClose) {
+        return { allowed: false, reason: 'Fees are not settled and the returned-items checklist is not done yet.' };
+      }
+      break;
+  }
+  return { allowed: true };
+}
