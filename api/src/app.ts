@@ -1,0 +1,120 @@
+// createApp(): middleware, routers and the central error handler. index.ts listens.
+import express, { type NextFunction, type Request, type Response } from 'express';
+import helmet from 'helmet';
+import cookieParser from 'cookie-parser';
+import { pinoHttp } from 'pino-http';
+import { randomUUID } from 'node:crypto';
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import type { Sequelize } from 'sequelize';
+import type { Config } from './config';
+import type { Logger } from './logger';
+import { AppError, NotFoundError } from './errors';
+import { sessionMiddleware } from './modules/auth/session';
+import { csrfProtection } from './modules/auth/csrf';
+import { requireSignedIn } from './modules/auth/guards';
+import { createAuthRouter } from './modules/auth/auth.router';
+import { createUsersRouter } from './modules/users/users.router';
+import { createTicketsRouter } from './modules/tickets/tickets.router';
+import { createBoardRouter } from './modules/board/board.router';
+import { calcRouter } from './modules/calc/calc.router';
+
+export interface AppDeps {
+  config: Config;
+  sequelize: Sequelize;
+  logger: Logger;
+}
+
+export function createApp(deps: AppDeps): express.Express {
+  const { config, logger } = deps;
+  const app = express();
+  app.disable('x-powered-by');
+  // Rigwright is reached directly on loopback or behind one proxy configured by the admin;
+  // never trust X-Forwarded-For by default (it would let anyone reset sign-in throttling).
+  app.set('trust proxy', false);
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          // Angular Material sets inline styles at run time.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          fontSrc: ["'self'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          connectSrc: ["'self'"],
+          objectSrc: ["'none'"],
+          baseUri: ["'none'"],
+          frameAncestors: ["'none'"],
+          formAction: ["'self'"],
+        },
+      },
+      referrerPolicy: { policy: 'same-origin' },
+      crossOriginEmbedderPolicy: false,
+    }),
+  );
+  app.use(
+    pinoHttp({
+      logger,
+      genReqId: (req, res) => {
+        const id = randomUUID();
+        res.setHeader('X-Request-Id', id);
+        return id;
+      },
+      autoLogging: { ignore: (req) => !(req.url ?? '').startsWith('/api') },
+    }),
+  );
+  app.use('/api', (_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
+  app.use(express.json({ limit: '64kb' }));
+  app.use(cookieParser());
+  app.use('/api', sessionMiddleware(deps));
+  app.use('/api', csrfProtection(deps));
+
+  app.use('/api/auth', createAuthRouter(deps));
+  app.use('/api/users', createUsersRouter(deps));
+  app.use('/api/tickets', createTicketsRouter(deps));
+  app.use('/api/board', createBoardRouter(deps));
+  app.use('/api/calc', requireSignedIn, calcRouter);
+  app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route.', 'route_not_found')));
+
+  // The built client, with the single-page fallback for its routes.
+  const dist = path.resolve(config.RW_CLIENT_DIST);
+  if (config.RW_CLIENT_DIST && existsSync(path.join(dist, 'index.html'))) {
+    app.use(express.static(dist, { index: false, maxAge: '1h' }));
+    app.get('/*splat', (_req, res) => {
+      res.setHeader('Cache-Control', 'no-cache');
+      res.sendFile(path.join(dist, 'index.html'));
+    });
+  }
+
+  // Central error handler: one JSON shape, never a stack trace or SQL.
+  app.use((err: unknown, req: Request, res: Response, _next: NextFunction) => {
+    if (err instanceof AppError) {
+      res.status(err.status).json(err.toBody());
+      return;
+    }
+    const e = err as { type?: string; status?: number; name?: string };
+    if (e?.type === 'entity.parse.failed') {
+      res.status(400).json({ error: { code: 'invalid_json', message: 'The request body is not valid JSON.' } });
+      return;
+    }
+    if (e?.type === 'entity.too.large') {
+      res.status(413).json({ error: { code: 'too_large', message: 'The request is too large.' } });
+      return;
+    }
+    if (e?.name?.startsWith('SequelizeConnection') || e?.name === 'SequelizeConnectionAcquireTimeoutError') {
+      req.log?.error({ err }, 'database unavailable');
+      res.status(503).json({ error: { code: 'database_unavailable', message: 'The database is not answering. Try again in a minute.' } });
+      return;
+    }
+    req.log?.error({ err }, 'unhandled error');
+    res.status(500).json({ error: { code: 'internal_error', message: 'Something went wrong on the server. Try again; if it keeps happening, tell a club officer.' } });
+  });
+
+  return app;
+}

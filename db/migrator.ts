@@ -1,0 +1,29 @@
+// One migrator (table schema_migrations) and one seeder (table schema_seeds), as in umzug's
+// seeders example. Migrations are listed here explicitly, in order.
+import { Umzug, SequelizeStorage } from 'umzug';
+import type { QueryInterface, Sequelize } from 'sequelize';
+import * as m001 from './migrations/001-accounts';
+import * as m002 from './migrations/002-tickets';
+
+type Step = { up(qi: QueryInterface): Promise<void>; down(qi: QueryInterface): Promise<void> };
+const MIGRATIONS: [string, Step][] = [
+  ['001-accounts', m001],
+  ['002-tickets', m002],
+];
+
+export function createMigrator(sequelize: Sequelize, log = false) {
+  return new Umzug({
+    migrations: MIGRATIONS.map(([name, step]) => ({
+      name,
+      up: ({ context }) => step.up(context),
+      down: ({ context }) => step.down(context),
+    })),
+    context: sequelize.getQueryInterface(),
+    storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
+    logger: log ? console : undefined,
+  });
+}
+
+export async function migrateUp(sequelize: Sequelize, log = false): Promise<void> {
+  await createMigrator(sequelize, log).up();
+}
