@@ -1,0 +1,151 @@
+// The test command (npm test): client unit tests (Vitest through ng test), domain and API tests
+// (node's runner against a real MariaDB, database rigwright_test), and browser tests (Playwright in
+// Debian's Chromium against the built client and a running API, database rigwright_e2e).
+// Ends with one line "N passed, N failed" that adds up every suite, for CI.
+import { spawn } from 'node:child_process';
+import { readFileSync, readdirSync, existsSync, rmSync } from 'node:fs';
+import path from 'node:path';
+import { ensureDatabase, ensureLocalMariaDb } from '../db/local-mariadb';
+import { ROOT, buildClientIfStale, runTs, startApi, startMaildev, type Service } from './services';
+
+interface SuiteResult {
+  name: string;
+  passed: number;
+  failed: number;
+  skipped: number;
+}
+
+const only = new Set(process.argv.slice(2)); // e.g. `npm test -- api` runs one suite
+const wants = (suite: string) => only.size === 0 || only.has(suite);
+const DB_PORT = process.env.RW_DB_PORT ?? '3407';
+const started: Service[] = [];
+const results: SuiteResult[] = [];
+
+/** Runs a command, echoing its output, and returns what it printed. */
+function run(cmd: string, args: string[], env: Record<string, string> = {}): Promise<{ code: number; output: string }> {
+  return new Promise((resolve) => {
+    const child = spawn(cmd, args, { cwd: ROOT, env: { ...process.env, ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
+    let output = '';
+    child.stdout.on('data', (d: Buffer) => {
+      output += d.toString();
+      process.stdout.write(d);
+    });
+    child.stderr.on('data', (d: Buffer) => {
+      output += d.toString();
+      process.stderr.write(d);
+    });
+    child.on('close', (code) => resolve({ code: code ?? 1, output }));
+  });
+}
+
+// eslint-disable-next-line no-control-regex
+const stripAnsi = (s: string) => s.replace(/\x1b\[[0-9;]*m/g, '');
+
+function findFiles(dir: string, suffix: string): string[] {
+  if (!existsSync(dir)) return [];
+  const out: string[] = [];
+  for (const entry of readdirSync(dir, { withFileTypes: true })) {
+    const full = path.join(dir, entry.name);
+    if (entry.isDirectory() && entry.name !== 'node_modules') out.push(...findFiles(full, suffix));
+    else if (entry.name.endsWith(suffix)) out.push(path.relative(ROOT, full));
+  }
+  return out.sort();
+}
+
+/** A suite that printed no counts but failed still counts as one failure. */
+function record(name: string, code: number, passed: number, failed: number, skipped = 0) {
+  if (code !== 0 && failed === 0) failed = 1;
+  if (code === 0 && passed + failed === 0) {
+    console.error(`${name}: ran no test.`);
+    failed = 1;
+  }
+  results.push({ name, passed, failed, skipped });
+}
+
+async function clientUnitTests() {
+  const ng = path.join(ROOT, 'node_modules', '@angular', 'cli', 'bin', 'ng.js');
+  const { code, output } = await run(process.execPath, [ng, 'test', '--watch=false'], { NG_CLI_ANALYTICS: 'false', CI: 'true' });
+  const text = stripAnsi(output);
+  const line = text.split('\n').reverse().find((l) => /^\s*Tests\s+/.test(l)) ?? '';
+  const num = (re: RegExp) => Number(re.exec(line)?.[1] ?? 0);
+  record('client unit (vitest)', code, num(/(\d+) passed/), num(/(\d+) failed/), num(/(\d+) skipped/));
+}
+
+async function apiTests() {
+  const files = [...findFiles(path.join(ROOT, 'api'), '.test.ts'), ...findFiles(path.join(ROOT, 'db'), '.test.ts')];
+  const { code, output } = await run(
+    process.execPath,
+    ['--import', 'tsx', '--test', '--test-concurrency=1', '--test-reporter=spec', ...files],
+    { RW_DB_NAME: 'rigwright_test', RW_DB_PORT: DB_PORT, NODE_ENV: 'test' },
+  );
+  const text = stripAnsi(output);
+  const last = (label: string) => {
+    const matches = [...text.matchAll(new RegExp(`^\\S*\\s*${label} (\\d+)$`, 'gm'))];
+    return Number(matches.at(-1)?.[1] ?? 0);
+  };
+  record('domain and API (node:test)', code, last('pass'), last('fail') + last('cancelled'), last('skipped') + last('todo'));
+}
+
+async function browserTests() {
+  buildClientIfStale();
+  const env = {
+    NODE_ENV: 'test',
+    RW_DB_PORT: DB_PORT,
+    RW_DB_NAME: 'rigwright_e2e',
+    RW_PORT: '4310',
+    RW_PUBLIC_URL: 'http://127.0.0.1:4310',
+    RW_SMTP_PORT: '1225',
+    RW_OUTBOX_INTERVAL_MS: '300',
+    RW_LOG_LEVEL: 'warn',
+  };
+  runTs('db/migrate.ts', ['up'], env);
+  runTs('db/seed.ts', [], env);
+  started.push(await startMaildev(1225, 1280, { quiet: true }));
+  started.push(await startApi(env, { quiet: true }));
+  const report = path.join(ROOT, 'test-results', 'e2e-report.json');
+  rmSync(report, { force: true });
+  const pw = path.join(ROOT, 'node_modules', '@playwright', 'test', 'cli.js');
+  const { code } = await run(process.execPath, [pw, 'test', '--config', 'e2e/playwright.config.ts'], {
+    RW_E2E_URL: 'http://127.0.0.1:4310',
+    RW_E2E_MAIL_URL: 'http://127.0.0.1:1280',
+    PLAYWRIGHT_JSON_OUTPUT_NAME: report,
+  });
+  let passed = 0, failed = 0, skipped = 0;
+  if (existsSync(report)) {
+    const stats = JSON.parse(readFileSync(report, 'utf8')).stats ?? {};
+    passed = (stats.expected ?? 0) + (stats.flaky ?? 0);
+    failed = stats.unexpected ?? 0;
+    skipped = stats.skipped ?? 0;
+  }
+  record('browser (playwright)', code, passed, failed, skipped);
+}
+
+async function main() {
+  const db = await ensureLocalMariaDb({ dir: path.join(ROOT, '.local', 'mariadb'), port: Number(DB_PORT), log: () => {} });
+  started.push({ name: 'mariadb', startedHere: db.startedHere, stop: db.stop });
+  // Fresh databases for the tests, never the demo data.
+  ensureDatabase(db, 'rigwright_test', { drop: true });
+  ensureDatabase(db, 'rigwright_e2e', { drop: true });
+  runTs('db/migrate.ts', ['up'], { RW_DB_NAME: 'rigwright_test', RW_DB_PORT: DB_PORT });
+
+  if (wants('client')) await clientUnitTests();
+  if (wants('api')) await apiTests();
+  if (wants('e2e')) await browserTests();
+}
+
+let exitCode = 0;
+try {
+  await main();
+} catch (err) {
+  console.error(`\nThe test command could not finish: ${(err as Error).message}`);
+  results.push({ name: 'set-up', passed: 0, failed: 1, skipped: 0 });
+} finally {
+  for (const service of started.reverse()) await service.stop().catch(() => {});
+}
+console.log('\nSuites:');
+for (const r of results) console.log(`  ${r.name}: ${r.passed} passed, ${r.failed} failed${r.skipped ? `, ${r.skipped} skipped` : ''}`);
+const passed = results.reduce((n, r) => n + r.passed, 0);
+const failed = results.reduce((n, r) => n + r.failed, 0);
+if (failed > 0) exitCode = 1;
+console.log(`${passed} passed, ${failed} failed`);
+process.exit(exitCode);
