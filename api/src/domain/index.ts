@@ -1,0 +1,7 @@
+// The client-safe domain computations (no Node modules). checksums.ts is Node-only and is
+// imported directly by the server where it is needed.
+export * from './input-error';
+export * from './xmodem';
+export * from './rf';
+export * from './dc-lead';
+export * from './workflow';

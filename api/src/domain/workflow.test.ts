@@ -1,0 +1,135 @@
+// Rules from the product brief, section 3 (our own design; no published source).
+import { describe, it } from 'node:test';
+import assert from 'node:assert/strict';
+import fc from 'fast-check';
+import { ALLOWED_MOVES, BOARD_LANES, checkMove, isState, STATES, type MoveFacts, type TicketState } from './workflow';
+
+/** Facts under which every guard is satisfied, so only the move itself is being judged. */
+const easy = (state: TicketState): MoveFacts => ({
+  state,
+  reflashConsent: true,
+  hasVerifiedFlash: true,
+  hasPassedTestSheet: true,
+  hasFailedTestSheet: true,
+  readyToClose: true,
+  awaitingApproval: false,
+});
+
+const reasonOf = (facts: MoveFacts, to: TicketState, note?: string) => {
+  const r = checkMove(facts, to, note);
+  assert.equal(r.allowed, false, `expected ${facts.state} → ${to} to be refused`);
+  return (r as { reason: string }).reason;
+};
+
+describe('the move table (brief §3)', () => {
+  const expected: [TicketState, TicketState][] = [
+    ['intake', 'diagnosis'],
+    ['diagnosis', 'reflash'],
+    ['diagnosis', 'repair'],
+    ['diagnosis', 'return'],
+    ['reflash', 'bench_test'],
+    ['reflash', 'repair'],
+    ['repair', 'bench_test'],
+    ['bench_test', 'return'],
+    ['bench_test', 'repair'],
+    ['return', 'closed'],
+  ];
+  it('has exactly the allowed moves of the brief', () => {
+    const actual = STATES.flatMap((from) => ALLOWED_MOVES[from].map((to) => [from, to] as [TicketState, TicketState]));
+    assert.deepEqual(new Set(actual.map((m) => m.join('>'))), new Set(expected.map((m) => m.join('>'))));
+  });
+  for (const [from, to] of expected) {
+    it(`allows ${from} → ${to} when its guard is met`, () => {
+      assert.deepEqual(checkMove(easy(from), to, 'owner declined the quote'), { allowed: true });
+    });
+  }
+  it('refuses every other pair with a reason naming both lanes, and the same lane as "already"', () => {
+    for (const from of STATES) {
+      for (const to of STATES) {
+        if (ALLOWED_MOVES[from].includes(to)) continue;
+        const reason = reasonOf(easy(from), to, 'a note');
+        if (from === to) assert.match(reason, /already in/);
+        else assert.match(reason, /cannot go from/);
+      }
+    }
+  });
+  it('says where a ticket can go instead, and that closed tickets stay closed', () => {
+    assert.equal(reasonOf(easy('intake'), 'repair'), 'A ticket cannot go from Intake to Repair. From Intake it can go to: Diagnosis.');
+    assert.match(reasonOf(easy('closed'), 'intake'), /Closed tickets stay closed\.$/);
+    assert.match(reasonOf(easy('diagnosis'), 'bench_test'), /From Diagnosis it can go to: Reflash, Repair, Return\./);
+  });
+  it('board lanes are every state but closed, in order; isState knows them', () => {
+    assert.deepEqual(BOARD_LANES, STATES.filter((s) => s !== 'closed'));
+    assert.ok(isState('bench_test'));
+    assert.ok(!isState('bench test'));
+    assert.ok(!isState(3));
+  });
+});
+
+describe('guards', () => {
+  it('diagnosis → reflash needs the owner’s consent', () => {
+    assert.match(reasonOf({ ...easy('diagnosis'), reflashConsent: false }, 'reflash'), /not consented to a reflash/);
+    assert.deepEqual(checkMove({ ...easy('diagnosis'), reflashConsent: false }, 'repair'), { allowed: true });
+  });
+  it('diagnosis → return needs a note of 3+ characters saying why', () => {
+    assert.match(reasonOf(easy('diagnosis'), 'return'), /Say why it goes back unrepaired/);
+    assert.match(reasonOf(easy('diagnosis'), 'return', '  ok '), /Say why/);
+    assert.deepEqual(checkMove(easy('diagnosis'), 'return', 'NFF'), { allowed: true });
+  });
+  it('reflash → bench test needs a flash attempt verified running; reflash → repair does not', () => {
+    const f = { ...easy('reflash'), hasVerifiedFlash: false };
+    assert.match(reasonOf(f, 'bench_test'), /verified running/);
+    assert.deepEqual(checkMove(f, 'repair'), { allowed: true });
+  });
+  it('bench test → return needs a passed test sheet', () => {
+    assert.match(reasonOf({ ...easy('bench_test'), hasPassedTestSheet: false }, 'return'), /test sheet has not passed/);
+  });
+  it('bench test → repair needs a failed test sheet or a note', () => {
+    const f = { ...easy('bench_test'), hasFailedTestSheet: false };
+    assert.match(reasonOf(f, 'repair'), /Say what failed on the bench/);
+    assert.deepEqual(checkMove(f, 'repair', 'no output on 40 m'), { allowed: true });
+    assert.deepEqual(checkMove(easy('bench_test'), 'repair'), { allowed: true });
+  });
+  it('return → closed needs fees settled and the checklist done', () => {
+    assert.match(reasonOf({ ...easy('return'), readyToClose: false }, 'closed'), /Fees are not settled/);
+  });
+  it('a quote awaiting approval holds every move except going back to the owner', () => {
+    const held = (s: TicketState) => ({ ...easy(s), awaitingApproval: true });
+    assert.match(reasonOf(held('diagnosis'), 'repair'), /not approved the quote/);
+    assert.match(reasonOf(held('diagnosis'), 'reflash'), /not approved the quote/);
+    assert.match(reasonOf(held('repair'), 'bench_test'), /not approved the quote/);
+    assert.deepEqual(checkMove(held('diagnosis'), 'return', 'owner declined'), { allowed: true });
+    assert.deepEqual(checkMove(held('bench_test'), 'return'), { allowed: true });
+  });
+  it('moves with no guard (intake → diagnosis, repair → bench test) pass with every fact false', () => {
+    const none = (s: TicketState): MoveFacts => ({
+      state: s, reflashConsent: false, hasVerifiedFlash: false, hasPassedTestSheet: false,
+      hasFailedTestSheet: false, readyToClose: false, awaitingApproval: false,
+    });
+    assert.deepEqual(checkMove(none('intake'), 'diagnosis'), { allowed: true });
+    assert.deepEqual(checkMove(none('repair'), 'bench_test'), { allowed: true });
+  });
+});
+
+describe('properties', () => {
+  it('no fact ever allows a move outside the table, and every refusal has a reason', () => {
+    const state = fc.constantFrom(...STATES);
+    const facts = fc.record({
+      state,
+      reflashConsent: fc.boolean(),
+      hasVerifiedFlash: fc.boolean(),
+      hasPassedTestSheet: fc.boolean(),
+      hasFailedTestSheet: fc.boolean(),
+      readyToClose: fc.boolean(),
+      awaitingApproval: fc.boolean(),
+    });
+    fc.assert(
+      fc.property(facts, state, fc.option(fc.string({ maxLength: 12 }), { nil: undefined }), (f, to, note) => {
+        const r = checkMove(f, to, note);
+        if (r.allowed) assert.ok(ALLOWED_MOVES[f.state].includes(to));
+        else assert.ok(r.reason.length > 10);
+      }),
+      { numRuns: 2000 },
+    );
+  });
+});
