@@ -1,4 +1,5 @@
-// Tickets (one piece of equipment from one owner), their audit events, and the mail outbox.
+// Tickets (one piece of equipment from one owner), their audit events, the mail outbox, and the
+// club settings row (wait limit, board revision).
 // The tag number a person quotes (RW-0042) is derived from the id, so it is not stored.
 import { DataTypes, type QueryInterface } from 'sequelize';
 
@@ -91,9 +92,21 @@ export async function up(qi: QueryInterface): Promise<void> {
     created_at: { type: DataTypes.DATE(3), allowNull: false },
   });
   await qi.addIndex('outbox', ['status', 'next_attempt_at']);
+
+  // One row (id 1) of club-wide settings. board_revision is bumped in the same transaction as
+  // every ticket write, so any API replica can tell with one tiny read whether its cached board
+  // JSON is still current (no in-process state that a second replica would miss).
+  await qi.createTable('club_settings', {
+    id: { type: DataTypes.TINYINT.UNSIGNED, primaryKey: true },
+    // Hours a ticket may wait in one lane before its card gets an amber edge.
+    wait_limit_hours: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 72 },
+    board_revision: { type: DataTypes.BIGINT.UNSIGNED, allowNull: false, defaultValue: 0 },
+  });
+  await qi.bulkInsert('club_settings', [{ id: 1, wait_limit_hours: 72, board_revision: 0 }]);
 }
 
 export async function down(qi: QueryInterface): Promise<void> {
+  await qi.dropTable('club_settings');
   await qi.dropTable('outbox');
   await qi.dropTable('ticket_events');
   await qi.dropTable('tickets');

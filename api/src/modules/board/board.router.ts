@@ -1,0 +1,32 @@
+// /api/board: the Bench board for technicians and admins.
+import { Router } from 'express';
+import type { Sequelize } from 'sequelize';
+import { z } from 'zod';
+import { parseInput } from '../../errors';
+import { requireRole } from '../auth/guards';
+import { createBoardReader } from './board.service';
+
+const boardQuerySchema = z.object({
+  technician: z
+    .union([z.literal('none'), z.coerce.number().int().positive()], 'Choose a technician by id, or none.')
+    .optional()
+    .or(z.literal('').transform(() => undefined)),
+  q: z
+    .string()
+    .trim()
+    .max(100, 'Keep the search to 100 characters.')
+    .optional()
+    .transform((v) => (v ? v : undefined)),
+});
+
+export function createBoardRouter(deps: { sequelize: Sequelize }): Router {
+  const router = Router();
+  const readBoardJson = createBoardReader(deps.sequelize);
+
+  router.get('/', requireRole('technician', 'admin'), async (req, res) => {
+    const filters = parseInput(boardQuerySchema, req.query);
+    res.type('application/json').send(await readBoardJson(filters));
+  });
+
+  return router;
+}

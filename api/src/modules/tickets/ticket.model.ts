@@ -1,0 +1,126 @@
+// Tickets (one piece of equipment from one owner) and their audit events, as Sequelize models.
+// Sequelize 6 TypeScript style: `declare` fields, CreationOptional for what the database fills in.
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type ForeignKey,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+} from 'sequelize';
+import { STATES, type TicketState } from '../../domain/workflow';
+
+export const EQUIPMENT_KINDS = ['transceiver', 'amplifier', 'tuner', 'power_supply', 'cable', 'accessory', 'other'] as const;
+export type EquipmentKind = (typeof EQUIPMENT_KINDS)[number];
+
+export const EVENT_KINDS = ['opened', 'moved', 'note'] as const;
+export type EventKind = (typeof EVENT_KINDS)[number];
+
+export class Ticket extends Model<InferAttributes<Ticket>, InferCreationAttributes<Ticket>> {
+  declare id: CreationOptional<number>;
+  declare ownerUserId: number | null;
+  declare ownerName: string;
+  declare ownerEmail: string;
+  declare ownerPhone: string | null;
+  declare ownerCallSign: string | null;
+  declare equipmentKind: EquipmentKind;
+  declare makeModel: string;
+  declare serialNumber: string | null;
+  declare units: string[];
+  declare faultReported: string;
+  declare accessories: string[];
+  declare firmwareVersions: string | null;
+  declare reflashConsent: boolean;
+  declare notifyByEmail: boolean;
+  declare state: CreationOptional<TicketState>;
+  declare stateSince: Date;
+  declare technicianId: number | null;
+  declare awaitingApproval: CreationOptional<boolean>;
+  declare partsOnOrder: CreationOptional<boolean>;
+  declare version: CreationOptional<number>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
+export class TicketEvent extends Model<InferAttributes<TicketEvent>, InferCreationAttributes<TicketEvent>> {
+  declare id: CreationOptional<number>;
+  declare ticketId: ForeignKey<number>;
+  declare actorId: number | null;
+  declare kind: EventKind;
+  declare fromState: TicketState | null;
+  declare toState: TicketState | null;
+  declare note: string | null;
+  declare createdAt: CreationOptional<Date>;
+}
+
+/** JSON columns come back as text from MariaDB (it stores JSON as LONGTEXT); parse them once here. */
+function jsonArray(this: Model, column: string): string[] {
+  const raw = this.getDataValue(column as never) as unknown;
+  if (Array.isArray(raw)) return raw as string[];
+  if (typeof raw === 'string') {
+    try {
+      const parsed = JSON.parse(raw);
+      return Array.isArray(parsed) ? parsed : [];
+    } catch {
+      return [];
+    }
+  }
+  return [];
+}
+
+export function initTicketModels(sequelize: Sequelize): void {
+  Ticket.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      ownerUserId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      ownerName: { type: DataTypes.STRING(100), allowNull: false },
+      ownerEmail: { type: DataTypes.STRING(254), allowNull: false },
+      ownerPhone: { type: DataTypes.STRING(40), allowNull: true },
+      ownerCallSign: { type: DataTypes.STRING(12), allowNull: true },
+      equipmentKind: { type: DataTypes.ENUM(...EQUIPMENT_KINDS), allowNull: false },
+      makeModel: { type: DataTypes.STRING(120), allowNull: false },
+      serialNumber: { type: DataTypes.STRING(60), allowNull: true },
+      units: {
+        type: DataTypes.JSON,
+        allowNull: false,
+        get(this: Ticket) {
+          return jsonArray.call(this, 'units');
+        },
+      },
+      faultReported: { type: DataTypes.TEXT, allowNull: false },
+      accessories: {
+        type: DataTypes.JSON,
+        allowNull: false,
+        get(this: Ticket) {
+          return jsonArray.call(this, 'accessories');
+        },
+      },
+      firmwareVersions: { type: DataTypes.STRING(500), allowNull: true },
+      reflashConsent: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      notifyByEmail: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+      state: { type: DataTypes.ENUM(...STATES), allowNull: false, defaultValue: 'intake' },
+      stateSince: { type: DataTypes.DATE(3), allowNull: false },
+      technicianId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      awaitingApproval: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      partsOnOrder: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      version: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
+      createdAt: { type: DataTypes.DATE(3) },
+      updatedAt: { type: DataTypes.DATE(3) },
+    },
+    { sequelize, tableName: 'tickets', modelName: 'Ticket', underscored: true, version: true },
+  );
+
+  TicketEvent.init(
+    {
+      id: { type: DataTypes.BIGINT.UNSIGNED, autoIncrement: true, primaryKey: true },
+      actorId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      kind: { type: DataTypes.ENUM(...EVENT_KINDS), allowNull: false },
+      fromState: { type: DataTypes.ENUM(...STATES), allowNull: true },
+      toState: { type: DataTypes.ENUM(...STATES), allowNull: true },
+      note: { type: DataTypes.TEXT, allowNull: true },
+      createdAt: { type: DataTypes.DATE(3) },
+    },
+    { sequelize, tableName: 'ticket_events', modelName: 'TicketEvent', underscored: true, updatedAt: false },
+  );
+}

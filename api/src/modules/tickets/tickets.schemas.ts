@@ -1,0 +1,66 @@
+// Input schemas for the ticket routes (zod 4). Bodies are strict: an unknown key (state, version,
+// ownerUserId, ...) is refused with 400 rather than ignored, so nothing can be mass-assigned.
+import { z } from 'zod';
+import { STATES } from '../../domain/workflow';
+import { EQUIPMENT_KINDS } from './ticket.model';
+
+const optionalText = (max: number, message: string) =>
+  z
+    .string()
+    .trim()
+    .max(max, message)
+    .optional()
+    .transform((v) => (v ? v : undefined));
+
+const listItem = z.string().trim().min(1, 'Leave out empty entries.').max(60, 'Keep each entry to 60 characters.');
+
+export const ownerSchema = z.strictObject({
+  name: z.string().trim().min(1, 'Give the owner’s name.').max(100, 'Keep the name to 100 characters.'),
+  email: z.email('Give an e-mail address like name@example.org.').max(254),
+  phone: optionalText(40, 'Keep the phone number to 40 characters.'),
+  callSign: z
+    .string()
+    .trim()
+    .toUpperCase()
+    .regex(/^[A-Z0-9/]{3,12}$/, 'A call sign is 3 to 12 letters, digits or /.')
+    .optional()
+    .or(z.literal('').transform(() => undefined)),
+});
+
+export const intakeSchema = z.strictObject({
+  equipmentKind: z.enum(EQUIPMENT_KINDS, 'Choose what kind of equipment it is.'),
+  makeModel: z.string().trim().min(1, 'Give the make and model.').max(120, 'Keep make and model to 120 characters.'),
+  serialNumber: optionalText(60, 'Keep the serial number to 60 characters.'),
+  units: z.array(listItem).max(8, 'List at most 8 units.'),
+  faultReported: z
+    .string()
+    .trim()
+    .min(5, 'Describe the fault in a few words (at least 5 characters).')
+    .max(4000, 'Keep the fault description to 4000 characters.'),
+  accessories: z.array(listItem).max(20, 'List at most 20 accessories.'),
+  firmwareVersions: optionalText(500, 'Keep firmware versions to 500 characters.'),
+  reflashConsent: z.boolean('Say whether the owner consents to a reflash.'),
+  notifyByEmail: z.boolean('Say whether the owner wants e-mail updates.'),
+  owner: ownerSchema.optional(),
+});
+export type IntakeInput = z.infer<typeof intakeSchema>;
+
+export const moveSchema = z.strictObject({
+  to: z.enum(STATES, 'Choose a lane to move the ticket to.'),
+  version: z.number('Send the ticket version you saw.').int().min(0),
+  note: optionalText(2000, 'Keep the note to 2000 characters.'),
+});
+export type MoveInput = z.infer<typeof moveSchema>;
+
+export const LIST_SORTS = ['tag', 'createdAt', 'state', 'stateSince'] as const;
+
+// Query strings are not strict: a cache-busting parameter must not break a list.
+export const listQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).max(100_000).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  sort: z.enum(LIST_SORTS).default('createdAt'),
+  dir: z.enum(['asc', 'desc']).default('desc'),
+  q: z.string().trim().max(100).optional(),
+  state: z.enum(STATES).optional(),
+});
+export type ListQuery = z.infer<typeof listQuerySchema>;
