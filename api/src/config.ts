@@ -33,6 +33,12 @@ const schema = z.object({
   RW_SIGNIN_WINDOW_MINUTES: z.coerce.number().int().min(1).default(15),
   RW_SIGNIN_MAX_PER_ACCOUNT_ADDRESS: z.coerce.number().int().min(1).default(5),
   RW_SIGNIN_MAX_PER_ADDRESS: z.coerce.number().int().min(1).default(50),
+  /** Argon2id cost: at or above the OWASP/ASVS row m=19456 KiB, t=2, p=1; raise them and old hashes are rehashed at sign-in. */
+  RW_ARGON2_MEMORY_KIB: z.coerce.number().int().min(19456).max(1_048_576).default(19456),
+  RW_ARGON2_TIME_COST: z.coerce.number().int().min(2).max(20).default(2),
+  RW_ARGON2_PARALLELISM: z.coerce.number().int().min(1).max(8).default(1),
+  /** Password-reset links stay valid this long (single use). */
+  RW_RESET_TOKEN_MINUTES: z.coerce.number().int().min(5).max(24 * 60).default(60),
   RW_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

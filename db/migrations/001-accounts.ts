@@ -1,4 +1,5 @@
-// Accounts, their roles, and single-use password-reset tokens.
+// Accounts, their roles, single-use password-reset tokens, and the sign-in throttle counters
+// (kept in the database, not in process memory, so a second API replica sees the same counts).
 import { DataTypes, type QueryInterface } from 'sequelize';
 
 export async function up(qi: QueryInterface): Promise<void> {
@@ -38,9 +39,17 @@ export async function up(qi: QueryInterface): Promise<void> {
     used_at: { type: DataTypes.DATE(3), allowNull: true },
     created_at: { type: DataTypes.DATE(3), allowNull: false },
   });
+  await qi.createTable('rate_limits', {
+    // Limiter name and SHA-256 of its key (address, or account and address): no e-mail stored here.
+    rl_key: { type: DataTypes.STRING(100), allowNull: false, primaryKey: true },
+    hits: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
+    reset_at: { type: DataTypes.DATE(3), allowNull: false },
+  });
+  await qi.addIndex('rate_limits', ['reset_at']);
 }
 
 export async function down(qi: QueryInterface): Promise<void> {
+  await qi.dropTable('rate_limits');
   await qi.dropTable('password_resets');
   await qi.dropTable('user_roles');
   await qi.dropTable('users');

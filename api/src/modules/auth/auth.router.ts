@@ -1,0 +1,74 @@
+// /api/auth: session, sign-in, sign-out, registration, password change and reset.
+// Thin handlers: parse, call the service, set cookies, answer. The token is only ever in the
+// HttpOnly cookie, never in a body.
+import { Router, type Response } from 'express';
+import type { AppDeps } from '../../app';
+import { parseInput } from '../../errors';
+import * as auth from './auth.service';
+import { changePasswordBody, registerBody, resetConfirmBody, resetRequestBody, signInBody } from './auth.schemas';
+import { issueCsrfCookie } from './csrf';
+import { requireSignedIn, currentUser } from './guards';
+import { sessionState } from './session';
+import { anonymousFormLimiter, signInLimiters } from './throttle';
+import { clearSessionCookie, setSessionCookie, signSessionToken } from './tokens';
+
+export function createAuthRouter(deps: AppDeps): Router {
+  const { config } = deps;
+  const router = Router();
+
+  /** Starts a session: new token (new session id) and an anti-forgery token bound to it. */
+  function startSession(res: Response, signedIn: auth.SignedIn): void {
+    const { token, sessionId } = signSessionToken(config, signedIn.user.id, signedIn.generation);
+    setSessionCookie(res, config, token);
+    issueCsrfCookie(res, config, sessionId);
+    sessionState(res).sessionId = sessionId;
+  }
+
+  router.get('/session', (req, res) => {
+    issueCsrfCookie(res, config, sessionState(res).sessionId);
+    res.json({ user: req.user ? auth.publicUser(req.user) : null });
+  });
+
+  router.post('/sign-in', ...signInLimiters(deps), async (req, res) => {
+    const body = parseInput(signInBody, req.body);
+    const signedIn = await auth.signIn(deps, body.email, body.password, req.log);
+    startSession(res, signedIn);
+    res.json({ user: signedIn.user });
+  });
+
+  router.post('/sign-out', requireSignedIn, async (req, res) => {
+    await auth.endSessions(deps, currentUser(req).id);
+    req.log?.info({ event: 'sign_out', userId: currentUser(req).id }, 'signed out; sessions ended');
+    clearSessionCookie(res, config);
+    issueCsrfCookie(res, config);
+    res.status(204).end();
+  });
+
+  router.post('/register', anonymousFormLimiter(deps, 'register-addr', 'registrations'), async (req, res) => {
+    const body = parseInput(registerBody, req.body);
+    const signedIn = await auth.register(deps, body, req.log);
+    startSession(res, signedIn);
+    res.status(201).json({ user: signedIn.user });
+  });
+
+  router.post('/password', requireSignedIn, async (req, res) => {
+    const body = parseInput(changePasswordBody, req.body);
+    const signedIn = await auth.changePassword(deps, currentUser(req).id, body.currentPassword, body.newPassword, req.log);
+    startSession(res, signedIn);
+    res.status(204).end();
+  });
+
+  router.post('/password-reset/request', anonymousFormLimiter(deps, 'reset-addr', 'password-reset requests'), async (req, res) => {
+    const body = parseInput(resetRequestBody, req.body);
+    await auth.requestPasswordReset(deps, body.email, req.log);
+    res.status(202).json({ message: 'If an account uses that address, a reset link is on its way.' });
+  });
+
+  router.post('/password-reset/confirm', anonymousFormLimiter(deps, 'reset-confirm-addr', 'password-reset attempts'), async (req, res) => {
+    const body = parseInput(resetConfirmBody, req.body);
+    await auth.confirmPasswordReset(deps, body.token, body.newPassword, req.log);
+    res.status(204).end();
+  });
+
+  return router;
+}
