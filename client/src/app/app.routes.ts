@@ -1,0 +1,71 @@
+import { Routes } from '@angular/router';
+import { homeRedirect, roleGuard, signedInGuard, signedOutGuard } from './core/auth/guards';
+
+export const routes: Routes = [
+  { path: '', pathMatch: 'full', redirectTo: homeRedirect },
+  {
+    path: 'sign-in',
+    title: 'Sign in · Rigwright',
+    canActivate: [signedOutGuard],
+    loadComponent: () => import('./features/auth/sign-in-page/sign-in-page').then((m) => m.SignInPage),
+  },
+  {
+    path: 'register',
+    title: 'Register as a member · Rigwright',
+    canActivate: [signedOutGuard],
+    loadComponent: () => import('./features/auth/register-page/register-page').then((m) => m.RegisterPage),
+  },
+  {
+    path: 'forgot-password',
+    title: 'Forgot password · Rigwright',
+    loadComponent: () =>
+      import('./features/auth/forgot-password-page/forgot-password-page').then((m) => m.ForgotPasswordPage),
+  },
+  {
+    path: 'reset-password',
+    title: 'Choose a new password · Rigwright',
+    loadComponent: () =>
+      import('./features/auth/reset-password-page/reset-password-page').then((m) => m.ResetPasswordPage),
+  },
+  {
+    path: 'account/password',
+    title: 'Change password · Rigwright',
+    canActivate: [signedInGuard],
+    loadComponent: () =>
+      import('./features/auth/change-password-page/change-password-page').then((m) => m.ChangePasswordPage),
+  },
+  {
+    path: 'hand-in',
+    title: 'Hand in equipment · Rigwright',
+    canActivate: [roleGuard('member', 'technician', 'admin')],
+    loadComponent: () => import('./features/tickets/intake-page/intake-page').then((m) => m.IntakePage),
+  },
+  {
+    path: 'tickets',
+    canActivate: [signedInGuard],
+    loadChildren: () => import('./features/tickets/tickets.routes').then((m) => m.TICKET_ROUTES),
+  },
+  {
+    path: 'board',
+    title: 'Bench board · Rigwright',
+    canActivate: [roleGuard('technician', 'admin')],
+    loadChildren: () => import('./features/board/board.routes').then((m) => m.BOARD_ROUTES),
+  },
+  {
+    path: 'admin/accounts',
+    title: 'Accounts · Rigwright',
+    canActivate: [roleGuard('admin')],
+    loadChildren: () => import('./features/accounts/accounts.routes').then((m) => m.ACCOUNT_ROUTES),
+  },
+  {
+    path: 'calculators',
+    title: 'Bench calculators · Rigwright',
+    canActivate: [signedInGuard],
+    loadChildren: () => import('./features/calculators/calculators.routes').then((m) => m.CALCULATOR_ROUTES),
+  },
+  {
+    path: '**',
+    title: 'Not found · Rigwright',
+    loadComponent: () => import('./core/not-found-page/not-found-page').then((m) => m.NotFoundPage),
+  },
+];

@@ -1,0 +1,33 @@
+import { HttpClient, HttpContext } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { Observable } from 'rxjs';
+import { HANDLES_OWN_ERRORS, Page, queryParams } from '../../core/http/api-error';
+import { IntakeBody, MoveBody, TicketDetail, TicketQuery, TicketRow } from './ticket.models';
+
+/** The ticket routes of the API. */
+@Injectable({ providedIn: 'root' })
+export class TicketApi {
+  private readonly http = inject(HttpClient);
+
+  list(query: TicketQuery): Observable<Page<TicketRow>> {
+    return this.http.get<Page<TicketRow>>('/api/tickets', { params: queryParams(query) });
+  }
+
+  get(tag: string): Observable<TicketDetail> {
+    return this.http.get<TicketDetail>(`/api/tickets/${encodeURIComponent(tag)}`);
+  }
+
+  /** The intake form shows field errors itself. */
+  create(body: IntakeBody): Observable<TicketDetail> {
+    return this.http.post<TicketDetail>('/api/tickets', body, {
+      context: new HttpContext().set(HANDLES_OWN_ERRORS, true),
+    });
+  }
+
+  /** Callers handle 409 (stale version) and 422 (move refused) themselves: they put things back. */
+  move(tag: string, body: MoveBody): Observable<TicketDetail> {
+    return this.http.post<TicketDetail>(`/api/tickets/${encodeURIComponent(tag)}/moves`, body, {
+      context: new HttpContext().set(HANDLES_OWN_ERRORS, true),
+    });
+  }
+}

@@ -1,0 +1,85 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCardModule } from '@angular/material/card';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { RouterLink } from '@angular/router';
+import { SessionStore } from '../../../core/auth/session-store';
+import { readApiError } from '../../../core/http/api-error';
+import { Notifier } from '../../../core/notifier';
+import { AgePipe } from '../../../shared/age';
+import { Caution } from '../../../shared/caution/caution';
+import { equipmentKindLabel, stateLabel } from '../../../shared/labels';
+import { StateChip } from '../../../shared/state-chip/state-chip';
+import { TicketApi } from '../ticket-api';
+import { TicketDetail, TicketMoveOption } from '../ticket.models';
+
+/** One ticket: what was handed in, by whom, where it is now, and everything that happened to it. */
+@Component({
+  selector: 'rw-ticket-page',
+  imports: [
+    ReactiveFormsModule,
+    RouterLink,
+    DatePipe,
+    AgePipe,
+    StateChip,
+    Caution,
+    MatCardModule,
+    MatButtonModule,
+    MatIconModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatProgressBarModule,
+  ],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './ticket-page.html',
+  styleUrl: './ticket-page.scss',
+})
+export class TicketPage {
+  /** The tag number from the route (`/tickets/:tag`). */
+  readonly tag = input.required<string>();
+
+  private readonly api = inject(TicketApi);
+  private readonly notifier = inject(Notifier);
+  protected readonly session = inject(SessionStore);
+
+  protected readonly ticket = rxResource({
+    params: () => this.tag(),
+    stream: ({ params }) => this.api.get(params),
+  });
+
+  protected readonly stateLabel = stateLabel;
+  protected readonly kindLabel = equipmentKindLabel;
+  protected readonly now = Date.now();
+  protected readonly moving = signal(false);
+  protected readonly moveError = signal('');
+  protected readonly noteForm = inject(NonNullableFormBuilder).group({ note: ['', [Validators.maxLength(2000)]] });
+
+  protected move(ticket: TicketDetail, option: TicketMoveOption): void {
+    if (!option.allowed || this.moving()) return;
+    this.moveError.set('');
+    this.moving.set(true);
+    const note = this.noteForm.controls.note.value.trim();
+    this.api.move(ticket.tag, { to: option.to, version: ticket.version, ...(note ? { note } : {}) }).subscribe({
+      next: (updated) => {
+        this.ticket.value.set(updated);
+        this.noteForm.reset();
+        this.moving.set(false);
+        this.notifier.info(`${updated.tag} moved to ${stateLabel(updated.state)}.`);
+      },
+      error: (err: unknown) => {
+        const apiError = readApiError(err);
+        this.moveError.set(
+          apiError.status === 409 ? `${apiError.message} The ticket has been reloaded: check it and try again.` : apiError.message,
+        );
+        this.moving.set(false);
+        if (apiError.status === 409) this.ticket.reload();
+      },
+    });
+  }
+}

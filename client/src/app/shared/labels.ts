@@ -1,0 +1,51 @@
+import { STATE_LABELS, TicketState } from '@domain/workflow';
+
+// Words and icons for states and flags: status is never colour alone (design-language.md).
+
+export const STATE_ICONS: Record<TicketState, string> = {
+  intake: 'move_to_inbox',
+  diagnosis: 'troubleshoot',
+  reflash: 'memory',
+  repair: 'build',
+  bench_test: 'speed',
+  return: 'assignment_return',
+  closed: 'task_alt',
+};
+
+export function stateLabel(state: TicketState): string {
+  return STATE_LABELS[state] ?? state;
+}
+
+export const FLAGS = ['awaiting_approval', 'parts_on_order', 'balance_due', 'test_failed'] as const;
+export type Flag = (typeof FLAGS)[number];
+
+export const FLAG_LABELS: Record<Flag, string> = {
+  awaiting_approval: 'Owner to approve',
+  parts_on_order: 'Parts on order',
+  balance_due: 'Balance due',
+  test_failed: 'Test failed',
+};
+
+export const FLAG_ICONS: Record<Flag, string> = {
+  awaiting_approval: 'approval',
+  parts_on_order: 'local_shipping',
+  balance_due: 'payments',
+  test_failed: 'report',
+};
+
+export const EQUIPMENT_KINDS = ['transceiver', 'amplifier', 'tuner', 'power_supply', 'cable', 'accessory', 'other'] as const;
+export type EquipmentKind = (typeof EQUIPMENT_KINDS)[number];
+
+export const EQUIPMENT_KIND_LABELS: Record<EquipmentKind, string> = {
+  transceiver: 'Transceiver',
+  amplifier: 'Amplifier',
+  tuner: 'Antenna tuner',
+  power_supply: 'Power supply',
+  cable: 'Cable or lead',
+  accessory: 'Accessory',
+  other: 'Other',
+};
+
+export function equipmentKindLabel(kind: string): string {
+  return EQUIPMENT_KIND_LABELS[kind as EquipmentKind] ?? kind;
+}
