@@ -115,8 +115,9 @@ export function passwordProblem(password: string, context: PasswordContext = {})
   const lower = pw.toLowerCase();
   const letters = lettersOnly(pw);
   const alnum = lettersAndDigits(pw);
-  // "Summer2024!" and "password1" are as weak as "summer" and "password".
-  if (COMMON.has(lower) || COMMON.has(alnum) || (letters.length >= 4 && COMMON.has(letters))) {
+  // "Summer2024!", "password1" and "p@ssw0rd!" are as weak as "summer", "password" and "p@ssw0rd".
+  const withoutTail = lower.replace(/[^\p{L}]+$/u, '');
+  if (COMMON.has(lower) || COMMON.has(alnum) || COMMON.has(withoutTail) || (letters.length >= 4 && COMMON.has(letters))) {
     return 'That password is too common. Try a few unrelated words together.';
   }
 
