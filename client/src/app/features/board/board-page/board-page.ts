@@ -162,7 +162,7 @@ export class BoardPage {
     return !!card && card.state !== state && movesFrom(card.state).includes(state);
   }
 
-  protected dropped(event: CdkDragDrop<TicketState, TicketState, Card>): void {
+  dropped(event: CdkDragDrop<TicketState, TicketState, Card>): void {
     const card = event.item.data;
     const to = event.container.data;
     if (!card || event.previousContainer === event.container || card.state === to) return;
