@@ -37,7 +37,7 @@ export interface TestApp {
 const BOOKKEEPING = new Set(['schema_migrations', 'schema_seeds']);
 const VOLATILE = new Set(['rate_limits']);
 
-let shared: Promise<{ sequelize: Sequelize; config: Config }> | undefined;
+let shared: Promise<{ sequelize: Sequelize; config: Config; lock: mariadb.Connection }> | undefined;
 let openApps = 0;
 
 /** Test defaults; RW_DB_* (and any RW_ setting) from the environment win, overrides win over both. */
@@ -61,7 +61,13 @@ function testConfig(overrides: ConfigOverrides): Config {
   return config;
 }
 
-async function ensureDatabase(config: Config): Promise<void> {
+/**
+ * Creates the test database if needed and takes a MariaDB named lock on it, held by one
+ * connection until close(): two test processes (another terminal, another checkout's run) that
+ * use these helpers on the same database wait for each other instead of emptying each other's
+ * tables mid-test.
+ */
+async function ensureDatabaseAndLock(config: Config): Promise<mariadb.Connection> {
   const conn = await mariadb.createConnection({
     host: config.RW_DB_HOST,
     port: config.RW_DB_PORT,
@@ -70,8 +76,12 @@ async function ensureDatabase(config: Config): Promise<void> {
   });
   try {
     await conn.query(`CREATE DATABASE IF NOT EXISTS \`${config.RW_DB_NAME}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-  } finally {
+    const [row] = await conn.query(`SELECT GET_LOCK(?, 600) AS got`, [`rigwright-tests:${config.RW_DB_NAME}`]);
+    if (Number(row?.got) !== 1) throw new Error(`Another test run held database ${config.RW_DB_NAME} for 10 minutes; giving up.`);
+    return conn;
+  } catch (err) {
     await conn.end();
+    throw err;
   }
 }
 
@@ -98,13 +108,13 @@ export async function truncateAll(sequelize: Sequelize): Promise<void> {
 export async function setupTestApp(overrides: ConfigOverrides = {}): Promise<TestApp> {
   const config = testConfig(overrides);
   shared ??= (async () => {
-    await ensureDatabase(config);
+    const lock = await ensureDatabaseAndLock(config);
     const sequelize = createSequelize(config);
     initModels(sequelize);
     await migrateUp(sequelize);
-    return { sequelize, config };
+    return { sequelize, config, lock };
   })();
-  const { sequelize } = await shared;
+  const { sequelize, lock } = await shared;
   await truncateAll(sequelize);
   const logger = createLogger('silent');
   const app = createApp({ config, sequelize, logger });
@@ -122,6 +132,7 @@ export async function setupTestApp(overrides: ConfigOverrides = {}): Promise<Tes
       if (openApps === 0 && shared) {
         shared = undefined;
         await sequelize.close();
+        await lock.end(); // releases the named lock
       }
     },
   };

@@ -36,7 +36,9 @@ export function signSessionToken(config: Config, userId: number, generation: num
 
 function parseClaims(payload: string | jwt.JwtPayload): SessionClaims | undefined {
   if (typeof payload === 'string') return undefined;
-  const { sub, gen, jti } = payload;
+  const { sub, gen, jti, exp } = payload;
+  // jsonwebtoken accepts a token without exp; ours always carry one.
+  if (typeof exp !== 'number') return undefined;
   if (typeof sub !== 'string' || !/^[1-9][0-9]{0,9}$/.test(sub)) return undefined;
   if (typeof gen !== 'number' || !Number.isInteger(gen) || gen < 0) return undefined;
   if (typeof jti !== 'string' || jti.length < 16 || jti.length > 64) return undefined;
