@@ -43,7 +43,10 @@ export interface TicketEventDto {
 export interface MoveOption {
   to: TicketState;
   allowed: boolean;
+  /** Why not; or, with noteRequired, what the note must say. */
   reason?: string;
+  /** The move is allowed once the mover writes a note (e.g. why it goes back unrepaired). */
+  noteRequired?: boolean;
 }
 
 export interface TicketDetail extends TicketRow {
@@ -267,9 +270,14 @@ async function findVisibleTicket(deps: TicketsDeps, user: SessionUser, tag: stri
 export function moveOptions(user: SessionUser, ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'awaitingApproval'>): MoveOption[] {
   const facts = moveFactsOf(ticket);
   const canMove = movesTickets(user);
-  return STATES.map((to) => {
+  return STATES.map((to): MoveOption => {
     const check = checkMove(facts, to);
-    if (!check.allowed) return { to, allowed: false, reason: check.reason };
+    if (!check.allowed) {
+      // Some guards only want a note; the board then asks for one instead of refusing the drop.
+      const withNote = checkMove(facts, to, 'a note');
+      if (!withNote.allowed || !canMove) return { to, allowed: false, reason: canMove ? check.reason : 'Only technicians move tickets on the Bench board.' };
+      return { to, allowed: true, noteRequired: true, reason: check.reason };
+    }
     if (!canMove) return { to, allowed: false, reason: 'Only technicians move tickets on the Bench board.' };
     return { to, allowed: true };
   });
