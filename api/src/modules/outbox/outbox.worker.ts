@@ -7,7 +7,7 @@
 // recognisable as the same message. The SMTP timeouts are well inside the lease, so a lease can
 // only expire on a worker that has stopped.
 import nodemailer, { type Transporter } from 'nodemailer';
-import { QueryTypes, type Sequelize } from 'sequelize';
+import { QueryTypes, Transaction, type Sequelize } from 'sequelize';
 import type { Config } from '../../config';
 import type { Logger } from '../../logger';
 
@@ -85,7 +85,22 @@ export function startOutboxWorker(deps: OutboxWorkerDeps): OutboxWorker {
   });
 
   async function claim(): Promise<ClaimedRow[]> {
-    return sequelize.transaction(async (transaction) => {
+    try {
+      return await claimOnce();
+    } catch (err) {
+      // Two workers racing for the same index range may still deadlock; InnoDB rolls one back.
+      // That worker simply claims nothing this round; the rows stay pending for the next sweep.
+      if ((err as { parent?: { errno?: number } }).parent?.errno === 1213) {
+        log.debug('outbox claim lost a deadlock; retrying next sweep');
+        return [];
+      }
+      throw err;
+    }
+  }
+
+  async function claimOnce(): Promise<ClaimedRow[]> {
+    // READ COMMITTED: no gap locks, so SKIP LOCKED lets concurrent claimers take disjoint rows.
+    return sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
       const now = new Date();
       const due = await sequelize.query<{ id: number | string }>(
         "SELECT id FROM outbox WHERE status = 'pending' AND next_attempt_at <= :now " +
