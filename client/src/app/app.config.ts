@@ -1,3 +1,4 @@
+import { APP_BASE_HREF } from '@angular/common';
 import { provideHttpClient, withFetch, withInterceptors, withXsrfConfiguration } from '@angular/common/http';
 import {
   ApplicationConfig,
@@ -16,6 +17,8 @@ export const appConfig: ApplicationConfig = {
   providers: [
     provideBrowserGlobalErrorListeners(),
     provideZonelessChangeDetection(),
+    // The app lives at the site root; index.html has no <base> because the CSP has base-uri 'none'.
+    { provide: APP_BASE_HREF, useValue: '/' },
     provideRouter(routes, withComponentInputBinding()),
     provideHttpClient(
       withFetch(),

@@ -1,6 +1,6 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
-import { rxResource } from '@angular/core/rxjs-interop';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { rxResource, toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
@@ -9,6 +9,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
+import { ALLOWED_MOVES } from '@domain/workflow';
 import { SessionStore } from '../../../core/auth/session-store';
 import { readApiError } from '../../../core/http/api-error';
 import { Notifier } from '../../../core/notifier';
@@ -59,9 +60,29 @@ export class TicketPage {
   protected readonly moving = signal(false);
   protected readonly moveError = signal('');
   protected readonly noteForm = inject(NonNullableFormBuilder).group({ note: ['', [Validators.maxLength(2000)]] });
+  private readonly note = toSignal(this.noteForm.controls.note.valueChanges, { initialValue: '' });
+
+  /** Only the lanes the workflow allows from here; the others are not choices at all. */
+  protected readonly moves = computed<TicketMoveOption[]>(() => {
+    if (!this.ticket.hasValue()) return [];
+    const t = this.ticket.value();
+    const lanes = ALLOWED_MOVES[t.state] ?? [];
+    return t.moves.filter((m) => lanes.includes(m.to));
+  });
+
+  /**
+   * A move the server refused only for want of a note becomes possible once a note is written
+   * (the server checks again and answers with its reason if something else is missing).
+   */
+  protected canMove(ticket: TicketDetail, option: TicketMoveOption): boolean {
+    if (option.allowed) return true;
+    const needsNote =
+      (ticket.state === 'diagnosis' && option.to === 'return') || (ticket.state === 'bench_test' && option.to === 'repair');
+    return needsNote && this.note().trim().length >= 3;
+  }
 
   protected move(ticket: TicketDetail, option: TicketMoveOption): void {
-    if (!option.allowed || this.moving()) return;
+    if (!this.canMove(ticket, option) || this.moving()) return;
     this.moveError.set('');
     this.moving.set(true);
     const note = this.noteForm.controls.note.value.trim();
