@@ -29,6 +29,8 @@ export interface TicketEvent {
 export interface TicketMoveOption {
   to: TicketState;
   allowed: boolean;
+  /** Allowed once a note for the timeline is given (the reason then says what to write). */
+  noteRequired?: boolean;
   reason?: string;
 }
 

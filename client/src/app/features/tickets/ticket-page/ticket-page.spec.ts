@@ -42,7 +42,7 @@ function detail(extra: Partial<TicketDetail> = {}): TicketDetail {
         : to === 'reflash'
           ? { to, allowed: false, reason: 'The owner has not consented to a reflash.' }
           : to === 'return'
-            ? { to, allowed: false, reason: 'Say why it goes back unrepaired in the note.' }
+            ? { to, allowed: true, noteRequired: true, reason: 'Say why it goes back unrepaired in the note.' }
             : { to, allowed: false, reason: 'Not a lane from here.' },
     ),
     ...extra,
@@ -102,6 +102,7 @@ describe('TicketPage', () => {
       { text: 'Move to Return', disabled: true },
     ]);
     expect(root.textContent).toContain('The owner has not consented to a reflash.');
+    expect(root.textContent).toContain('Say why it goes back unrepaired in the note.');
     expect(root.textContent).not.toContain('Not a lane from here.');
   });
 

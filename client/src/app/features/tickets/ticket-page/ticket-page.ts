@@ -71,14 +71,17 @@ export class TicketPage {
   });
 
   /**
-   * A move the server refused only for want of a note becomes possible once a note is written
-   * (the server checks again and answers with its reason if something else is missing).
+   * Whether a move button is live. A move that only wants a note (the server marks it
+   * `noteRequired`) becomes possible once a note of 3+ characters is written; the server checks
+   * again and answers with its reason if something else is missing.
    */
   protected canMove(ticket: TicketDetail, option: TicketMoveOption): boolean {
-    if (option.allowed) return true;
-    const needsNote =
-      (ticket.state === 'diagnosis' && option.to === 'return') || (ticket.state === 'bench_test' && option.to === 'repair');
-    return needsNote && this.note().trim().length >= 3;
+    const noteMove =
+      option.noteRequired ||
+      (!option.allowed &&
+        ((ticket.state === 'diagnosis' && option.to === 'return') || (ticket.state === 'bench_test' && option.to === 'repair')));
+    if (noteMove) return this.note().trim().length >= 3;
+    return option.allowed;
   }
 
   protected move(ticket: TicketDetail, option: TicketMoveOption): void {
