@@ -116,8 +116,12 @@ describe('GET /api/board', () => {
     const a = (await member.post('/api/tickets', intake()).expect(201)).body;
     const first = (await tech.get('/api/board').expect(200)).body;
     assert.equal(first.cards[0].state, 'intake');
-    assert.equal((await tech.get('/api/board').expect(200)).text, JSON.stringify(first), 'same revision, same board');
+    const again = await tech.get('/api/board').expect(200);
+    assert.equal(again.text, JSON.stringify(first), 'same revision, same board');
+    assert.match(again.headers.etag, /^W\/"board-[\w-]+"$/);
+    await tech.get('/api/board').set('If-None-Match', again.headers.etag).expect(304);
     await walk(a.tag, [{ to: 'diagnosis' }]);
+    await tech.get('/api/board').set('If-None-Match', again.headers.etag).expect(200);
     const second = (await tech.get('/api/board').expect(200)).body;
     assert.equal(second.cards[0].state, 'diagnosis');
     assert.equal(second.cards[0].version, 1);

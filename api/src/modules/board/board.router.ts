@@ -21,11 +21,15 @@ const boardQuerySchema = z.object({
 
 export function createBoardRouter(deps: { sequelize: Sequelize }): Router {
   const router = Router();
-  const readBoardJson = createBoardReader(deps.sequelize);
+  const readBoard = createBoardReader(deps.sequelize);
 
   router.get('/', requireRole('technician', 'admin'), async (req, res) => {
     const filters = parseInput(boardQuerySchema, req.query);
-    res.type('application/json').send(await readBoardJson(filters));
+    const board = await readBoard(filters);
+    // Our own ETag (cheap) instead of Express hashing ~100 KiB per request; Express still answers
+    // 304 to a matching If-None-Match.
+    res.setHeader('ETag', board.etag);
+    res.type('application/json').send(board.body);
   });
 
   return router;

@@ -5,6 +5,7 @@
 // cached per (board revision, wait limit, filters). The revision is read from the database on
 // every request, so a cached board is never older than the last committed ticket write, on any
 // replica.
+import { createHash } from 'node:crypto';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { BOARD_LANES, type TicketState } from '../../domain/workflow';
 import type { EquipmentKind } from '../tickets/ticket.model';
@@ -114,8 +115,15 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
 }
 
 interface CacheEntry {
-  json: string;
+  body: Buffer;
+  etag: string;
   at: number;
+}
+
+/** A serialised board, ready to send: the JSON bytes and a validator for conditional requests. */
+export interface BoardBody {
+  body: Buffer;
+  etag: string;
 }
 
 /**
@@ -130,11 +138,16 @@ export function createBoardReader(sequelize: Sequelize, options: { ttlMs?: numbe
   const cache = new Map<string, CacheEntry>();
   let cachedRevision: string | null = null;
 
-  return async function readBoardJson(filters: BoardFilters): Promise<string> {
+  const build = async (filters: BoardFilters, waitLimitHours: number): Promise<CacheEntry> => {
+    const body = Buffer.from(JSON.stringify(await loadBoard(sequelize, filters, waitLimitHours)));
+    // Hashed once per build (not per request); the same board gives the same ETag on every replica.
+    const hash = createHash('sha1').update(body).digest('base64url');
+    return { body, etag: `W/"board-${hash}"`, at: Date.now() };
+  };
+
+  return async function readBoard(filters: BoardFilters): Promise<BoardBody> {
     const settings = await readBoardSettings(sequelize);
-    if (settings.revision === null) {
-      return JSON.stringify(await loadBoard(sequelize, filters, settings.waitLimitHours));
-    }
+    if (settings.revision === null) return build(filters, settings.waitLimitHours);
     if (settings.revision !== cachedRevision) {
       cache.clear();
       cachedRevision = settings.revision;
@@ -142,14 +155,14 @@ export function createBoardReader(sequelize: Sequelize, options: { ttlMs?: numbe
     const key = `${settings.waitLimitHours}|${filters.technician ?? ''}|${filters.q ?? ''}`;
     const hit = cache.get(key);
     const now = Date.now();
-    if (hit && now - hit.at < ttlMs) return hit.json;
-    const json = JSON.stringify(await loadBoard(sequelize, filters, settings.waitLimitHours));
+    if (hit && now - hit.at < ttlMs) return hit;
+    const entry = await build(filters, settings.waitLimitHours);
     // A write may have committed while we read; the next request sees the new revision and
     // rebuilds. Only cache under the revision we read before the board itself.
     if (cachedRevision === settings.revision) {
       if (cache.size >= maxEntries) cache.delete(cache.keys().next().value as string);
-      cache.set(key, { json, at: now });
+      cache.set(key, entry);
     }
-    return json;
+    return entry;
   };
 }
