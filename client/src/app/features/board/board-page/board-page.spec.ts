@@ -103,7 +103,7 @@ describe('BoardPage', () => {
     expect(rw3.querySelector('rw-flag-chip')?.textContent).toContain('Owner to approve');
     // 100 h against a 48 h limit: past twice the limit, with words as well as the edge.
     expect(rw3.classList).toContain('waited-long');
-    expect(rw3.textContent).toContain('Waited over twice the limit');
+    expect(rw3.textContent).toContain('Over twice the wait limit');
     const rw2 = root.querySelector<HTMLElement>('[data-tag="RW-0002"]')!;
     expect(rw2.classList).toContain('waited');
     expect(rw2.classList).not.toContain('waited-long');

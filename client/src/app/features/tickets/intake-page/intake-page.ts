@@ -23,6 +23,7 @@ import { IntakeBody, TicketDetail } from '../ticket.models';
 export const UNIT_SUGGESTIONS = ['display head', 'main body', 'DSP unit'] as const;
 export const ACCESSORY_CHOICES = ['control cable', 'DC lead', 'microphone', 'antenna', 'manual'] as const;
 const MAX_UNITS = 8;
+const FIX_FIELDS = 'Some fields need attention: see the messages below them.';
 
 function maxItems(max: number) {
   return (control: AbstractControl<string[]>): ValidationErrors | null =>
@@ -98,6 +99,10 @@ export class IntakePage {
 
   constructor() {
     this.form.controls.owner.disable();
+    // The summary above the form goes away once every field is fixed.
+    this.form.statusChanges.pipe(takeUntilDestroyed()).subscribe((status) => {
+      if (status === 'VALID' && this.formError() === FIX_FIELDS) this.formError.set('');
+    });
     this.form.controls.onBehalf.valueChanges.pipe(takeUntilDestroyed()).subscribe((on) => {
       if (on) this.form.controls.owner.enable();
       else this.form.controls.owner.disable();
@@ -156,7 +161,7 @@ export class IntakePage {
     this.formError.set('');
     if (this.form.invalid) {
       this.form.markAllAsTouched();
-      this.formError.set('Some fields need attention: see the messages below them.');
+      this.formError.set(FIX_FIELDS);
       return;
     }
     this.busy.set(true);
@@ -167,7 +172,7 @@ export class IntakePage {
       },
       error: (err: unknown) => {
         this.busy.set(false);
-        this.formError.set(placeServerError(this.form, readApiError(err)) || 'Some fields need attention: see the messages below them.');
+        this.formError.set(placeServerError(this.form, readApiError(err)) || FIX_FIELDS);
       },
     });
   }
