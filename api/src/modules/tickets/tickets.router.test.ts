@@ -26,7 +26,7 @@ const intake = (extra: Record<string, unknown> = {}) => ({
 let t: TestApp;
 let member: TestClient, member2: TestClient, tech: TestClient, tech2: TestClient, treasurer: TestClient, admin: TestClient;
 
-async function rows<T>(sql: string, replacements: Record<string, unknown> = {}): Promise<T[]> {
+async function rows<T extends object>(sql: string, replacements: Record<string, unknown> = {}): Promise<T[]> {
   return t.sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT });
 }
 
