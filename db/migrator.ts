@@ -12,7 +12,7 @@ const MIGRATIONS: [string, Step][] = [
 ];
 
 export function createMigrator(sequelize: Sequelize, log = false) {
-  return new Umzug({
+  return new Umzug<QueryInterface>({
     migrations: MIGRATIONS.map(([name, step]) => ({
       name,
       up: ({ context }) => step.up(context),
