@@ -10,7 +10,7 @@
 //   const before = await tableSnapshot(t.sequelize); ... assert.deepEqual(await tableSnapshot(t.sequelize), before);
 import supertest from 'supertest';
 import type { Test } from 'supertest';
-import mariadb from 'mariadb';
+import mariadb, { type Connection as MariaDbConnection } from 'mariadb';
 import type { Express } from 'express';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { loadConfig, type Config } from '../src/config';
@@ -37,8 +37,8 @@ export interface TestApp {
 const BOOKKEEPING = new Set(['schema_migrations', 'schema_seeds']);
 const VOLATILE = new Set(['rate_limits']);
 
-let shared: Promise<{ sequelize: Sequelize; config: Config; lock: mariadb.Connection }> | undefined;
-let openApps = 0;
+let shared: Promise<{ sequelize: Sequelize; config: Config; lock: MariaDbConnection }> | undefined;
+let latestApp = 0;
 
 /** Test defaults; RW_DB_* (and any RW_ setting) from the environment win, overrides win over both. */
 function testConfig(overrides: ConfigOverrides): Config {
@@ -67,7 +67,7 @@ function testConfig(overrides: ConfigOverrides): Config {
  * use these helpers on the same database wait for each other instead of emptying each other's
  * tables mid-test.
  */
-async function ensureDatabaseAndLock(config: Config): Promise<mariadb.Connection> {
+async function ensureDatabaseAndLock(config: Config): Promise<MariaDbConnection> {
   const conn = await mariadb.createConnection({
     host: config.RW_DB_HOST,
     port: config.RW_DB_PORT,
@@ -103,7 +103,8 @@ export async function truncateAll(sequelize: Sequelize): Promise<void> {
 /**
  * Connects (once per process), migrates, empties every table and builds an app. The outbox worker
  * is not started and the logger is silent. `overrides` change settings for this app only, e.g.
- * `{ RW_SIGNIN_MAX_PER_ADDRESS: '5' }`; database settings come from the first call.
+ * `{ RW_SIGNIN_MAX_PER_ADDRESS: '5' }`; database settings come from the first call. Close the
+ * last app built in the file (e.g. in `after`), or the open connection keeps the process alive.
  */
 export async function setupTestApp(overrides: ConfigOverrides = {}): Promise<TestApp> {
   const config = testConfig(overrides);
@@ -118,7 +119,10 @@ export async function setupTestApp(overrides: ConfigOverrides = {}): Promise<Tes
   await truncateAll(sequelize);
   const logger = createLogger('silent');
   const app = createApp({ config, sequelize, logger });
-  openApps += 1;
+  // Each call empties the tables, so only the latest app is meaningful: closing it closes the
+  // shared connection (closing an older one is a no-op), so a file that builds several apps and
+  // closes just the last one still exits.
+  const appNumber = ++latestApp;
   let closed = false;
   return {
     app,
@@ -128,8 +132,7 @@ export async function setupTestApp(overrides: ConfigOverrides = {}): Promise<Tes
     async close() {
       if (closed) return;
       closed = true;
-      openApps -= 1;
-      if (openApps === 0 && shared) {
+      if (appNumber === latestApp && shared) {
         shared = undefined;
         await sequelize.close();
         await lock.end(); // releases the named lock
