@@ -41,14 +41,19 @@ export async function waitForMail(address: string, subject: RegExp, timeoutMs = 
 
 /** CDK drag in a real browser: press, move in steps, release, then wait for the preview to go. */
 export async function dragTo(page: Page, from: ReturnType<Page['locator']>, to: ReturnType<Page['locator']>) {
+  await from.scrollIntoViewIfNeeded();
   const a = await from.boundingBox();
   const b = await to.boundingBox();
-  if (!a || !b) throw new Error('drag source or target is not visible');
+  const viewport = page.viewportSize();
+  if (!a || !b || !viewport) throw new Error('drag source or target is not visible');
+  // Aim at a point of the target lane that is inside the viewport.
+  const targetX = b.x + b.width / 2;
+  const targetY = Math.min(Math.max(b.y + 40, 80), Math.min(b.y + b.height - 10, viewport.height - 20));
   await page.mouse.move(a.x + a.width / 2, a.y + a.height / 2);
   await page.mouse.down();
   await page.mouse.move(a.x + a.width / 2 + 10, a.y + a.height / 2 + 10, { steps: 5 });
-  await page.mouse.move(b.x + b.width / 2, b.y + 60, { steps: 20 });
-  await page.mouse.move(b.x + b.width / 2, b.y + 80, { steps: 5 });
+  await page.mouse.move(targetX, targetY, { steps: 20 });
+  await page.mouse.move(targetX, targetY + 5, { steps: 5 });
   await page.mouse.up();
   await expect(page.locator('.cdk-drag-preview')).toHaveCount(0);
 }

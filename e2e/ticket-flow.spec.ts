@@ -9,18 +9,18 @@ test('hand in equipment, move it on the Bench board, owner is e-mailed', async (
   await memberPage.goto('/hand-in');
   await expect(memberPage.getByRole('heading', { name: /hand in equipment/i })).toBeVisible();
 
-  const model = `Fenwick FT-90 test ${Date.now().toString(36)}`;
-  await memberPage.getByLabel('Equipment kind').click();
+  const model = `Fenwick Heron 90 test ${Date.now().toString(36)}`;
+  await memberPage.getByLabel('Kind of equipment').click();
   await memberPage.getByRole('option', { name: /transceiver/i }).click();
   await memberPage.getByLabel('Make and model').fill(model);
   await memberPage.getByLabel('Serial number').fill('QX-40417');
   await memberPage.getByLabel(/fault as reported/i).fill('Relay clicks at power-on but the display stays dark.');
   await memberPage.getByRole('checkbox', { name: /control cable/i }).check();
-  await memberPage.getByRole('checkbox', { name: /consent to a reflash/i }).check();
+  await memberPage.getByRole('checkbox', { name: /agree to a reflash/i }).check();
   await memberPage.screenshot({ path: `${SCREENSHOTS}/intake-form.png`, fullPage: true });
-  await memberPage.getByRole('button', { name: /hand in/i }).last().click();
+  await memberPage.getByRole('button', { name: /hand in and open a ticket/i }).click();
 
-  const tagText = await memberPage.getByText(/RW-\d{4,}/).first().textContent();
+  const tagText = await memberPage.getByTestId('opened-tag').textContent();
   const tag = /RW-\d{4,}/.exec(tagText ?? '')?.[0];
   expect(tag, 'the confirmation shows the tag number').toBeTruthy();
   await waitForMail(DEMO.member.email, new RegExp(`${tag}`));
@@ -57,6 +57,7 @@ test('a refused move puts the card back and says why', async ({ page }) => {
   await dragTo(page, card, page.locator('[data-lane="return"]'));
   await expect(page.locator(`[data-lane="intake"] [data-tag="${tag}"]`)).toBeVisible();
   await expect(page.locator(`[data-lane="return"] [data-tag="${tag}"]`)).toHaveCount(0);
+  await expect(page.getByText(/cannot go from Intake to Return/)).toBeVisible();
 });
 
 test('a member cannot open the Bench board data', async ({ page }) => {

@@ -51,7 +51,7 @@ export async function startMaildev(smtpPort: number, webPort: number, opts: { qu
   if (await answers(health)) {
     return { name: 'maildev', startedHere: false, stop: async () => {} };
   }
-  const bin = path.join(ROOT, 'node_modules', 'maildev', 'bin', 'maildev');
+  const bin = path.join(ROOT, 'node_modules', 'maildev', 'dist', 'bin', 'maildev.js');
   const child = spawn(
     process.execPath,
     [bin, '--ip', '127.0.0.1', '--smtp', String(smtpPort), '--web', String(webPort), '--silent'],

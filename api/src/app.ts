@@ -86,7 +86,7 @@ export function createApp(deps: AppDeps): express.Express {
   const dist = path.resolve(config.RW_CLIENT_DIST);
   if (config.RW_CLIENT_DIST && existsSync(path.join(dist, 'index.html'))) {
     app.use(express.static(dist, { index: false, maxAge: '1h' }));
-    app.get('/*splat', (_req, res) => {
+    app.get('/{*splat}', (_req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
       res.sendFile(path.join(dist, 'index.html'));
     });

@@ -45,6 +45,11 @@ export function csrfTokenValid(config: Config, token: string, sessionId = ''): b
 
 /** Sets a fresh XSRF-TOKEN cookie bound to the given session (none: anonymous). */
 export function issueCsrfCookie(res: Response, config: Config, sessionId?: string): void {
+  // One XSRF-TOKEN per response: a later issue (e.g. after sign-in) replaces an earlier one.
+  const existing = res.getHeader('Set-Cookie');
+  if (Array.isArray(existing)) {
+    res.setHeader('Set-Cookie', existing.filter((c) => !c.startsWith(`${CSRF_COOKIE}=`)));
+  }
   res.cookie(CSRF_COOKIE, createCsrfToken(config, sessionId ?? ''), {
     httpOnly: false, // the client must read it to echo it
     secure: config.RW_COOKIE_SECURE,
