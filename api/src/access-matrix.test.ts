@@ -1,0 +1,113 @@
+// Role x route x owner matrix over every route the app registers (reliability.md, test 8):
+// deny by default, and the database unchanged after every denial. A route added without a row in
+// ACCESS fails the first test, so new routes cannot slip past this sweep.
+import { after, before, test } from 'node:test';
+import assert from 'node:assert/strict';
+import { anonymous, createUser, registeredRoutes, setupTestApp, signIn, tableSnapshot, type TestApp, type TestClient } from '../test/helpers';
+import type { Role } from './modules/auth/session-user';
+
+type Actor = 'anonymous' | 'owner' | 'otherMember' | 'technician' | 'treasurer' | 'admin';
+const ACTORS: Actor[] = ['anonymous', 'owner', 'otherMember', 'technician', 'treasurer', 'admin'];
+const SIGNED_IN: Actor[] = ['owner', 'otherMember', 'technician', 'treasurer', 'admin'];
+
+/** Who gets past the access checks of each route; everyone else is refused (401, 403, or 404 for someone else's object). */
+const ACCESS: Record<string, Actor[]> = {
+  'GET /api/auth/session': ACTORS,
+  'POST /api/auth/sign-in': ACTORS,
+  'POST /api/auth/sign-out': SIGNED_IN,
+  'POST /api/auth/register': ACTORS,
+  'POST /api/auth/password': SIGNED_IN,
+  'POST /api/auth/password-reset/request': ACTORS,
+  'POST /api/auth/password-reset/confirm': ACTORS,
+  'GET /api/users': ['admin'],
+  'POST /api/users': ['admin'],
+  'PATCH /api/users/:id': ['admin'],
+  'POST /api/tickets': ['owner', 'otherMember', 'technician', 'admin'],
+  'GET /api/tickets': SIGNED_IN,
+  'GET /api/tickets/:tag': ['owner', 'technician', 'treasurer', 'admin'],
+  'POST /api/tickets/:tag/moves': ['technician', 'admin'],
+  'GET /api/board': ['technician', 'admin'],
+  'GET /api/calc/xmodem': SIGNED_IN,
+  'GET /api/calc/rf': SIGNED_IN,
+  'GET /api/calc/dc-drop': SIGNED_IN,
+};
+
+const PASSWORD = 'matrix-sweep-passphrase';
+const ACCOUNTS: Record<Exclude<Actor, 'anonymous'>, Role[]> = {
+  owner: ['member'],
+  otherMember: ['member'],
+  technician: ['technician'],
+  treasurer: ['treasurer'],
+  admin: ['admin'],
+};
+
+let t: TestApp;
+let ticketTag = '';
+let otherMemberId = 0;
+
+before(async () => {
+  // Every request below signs in afresh; lift the per-address throttle for this sweep only.
+  t = await setupTestApp({ RW_SIGNIN_MAX_PER_ADDRESS: '100000', RW_SIGNIN_MAX_PER_ACCOUNT_ADDRESS: '100000' });
+  for (const [actor, roles] of Object.entries(ACCOUNTS)) {
+    const user = await createUser(t.sequelize, { email: `${actor.toLowerCase()}@matrix.example`, password: PASSWORD, roles });
+    if (actor === 'otherMember') otherMemberId = user.id;
+  }
+  const owner = await client('owner');
+  const res = await owner.post('/api/tickets', {
+    equipmentKind: 'transceiver',
+    makeModel: 'Matrix test transceiver',
+    units: ['main body'],
+    faultReported: 'Display stays dark after power-on.',
+    accessories: [],
+    reflashConsent: true,
+    notifyByEmail: false,
+  });
+  assert.equal(res.status, 201, res.text);
+  ticketTag = res.body.tag;
+});
+
+after(() => t.close());
+
+async function client(actor: Actor): Promise<TestClient> {
+  if (actor === 'anonymous') return anonymous(t.app);
+  return signIn(t.app, `${actor.toLowerCase()}@matrix.example`, PASSWORD);
+}
+
+function urlFor(path: string): string {
+  return path.replace(':tag', ticketTag).replace(':id', String(otherMemberId));
+}
+
+test('every registered API route has a row in the access matrix', () => {
+  const routes = registeredRoutes(t.app)
+    .filter((r) => r.path.startsWith('/api'))
+    .map((r) => `${r.method} ${r.path}`);
+  assert.ok(routes.length >= Object.keys(ACCESS).length, `found only ${routes.length} routes`);
+  const missing = routes.filter((r) => !(r in ACCESS));
+  assert.deepEqual(missing, [], `routes without a row in ACCESS: ${missing.join(', ')}`);
+  const stale = Object.keys(ACCESS).filter((r) => !routes.includes(r));
+  assert.deepEqual(stale, [], `rows for routes that no longer exist: ${stale.join(', ')}`);
+});
+
+for (const [route, allowed] of Object.entries(ACCESS)) {
+  test(`${route}: ${allowed.length === ACTORS.length ? 'anyone gets' : `only ${allowed.join(', ')} get`} past the access checks`, async () => {
+    const [method, path] = route.split(' ') as [string, string];
+    for (const actor of ACTORS) {
+      const c = await client(actor);
+      const before = await tableSnapshot(t.sequelize);
+      // An empty body: an allowed actor meets validation (or succeeds), a refused one meets the guard.
+      const url = urlFor(path);
+      const res =
+        method === 'GET' ? await c.get(url) : method === 'PATCH' ? await c.patch(url, {}) : await c.post(url, {});
+      const refused = res.status === 401 || res.status === 403 || (res.status === 404 && path.includes(':'));
+      if (allowed.includes(actor)) {
+        assert.ok(!refused, `${actor} was refused ${route} with ${res.status}: ${res.text}`);
+        assert.ok(res.status < 500, `${actor} got ${res.status} from ${route}`);
+      } else {
+        const expected = actor === 'anonymous' ? [401] : path.includes(':tag') && method === 'GET' ? [404] : [403];
+        assert.ok(expected.includes(res.status), `${actor} got ${res.status} from ${route}, expected ${expected.join(' or ')}`);
+        assert.equal(typeof res.body?.error?.message, 'string', 'a refusal carries a message');
+        assert.deepEqual(await tableSnapshot(t.sequelize), before, `${actor}'s refused ${route} changed the database`);
+      }
+    }
+  });
+}
