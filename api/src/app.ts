@@ -64,6 +64,11 @@ export function createApp(deps: AppDeps): express.Express {
         return id;
       },
       autoLogging: { ignore: (req) => !(req.url ?? '').startsWith('/api') },
+      // One short line per request: no headers (cookies, tokens) and no query strings in the log.
+      serializers: {
+        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, path: req.url.split('?')[0] }),
+        res: (res: { statusCode: number }) => ({ status: res.statusCode }),
+      },
     }),
   );
   app.use('/api', (_req, res, next) => {

@@ -48,6 +48,10 @@ export class TicketPage {
   private readonly api = inject(TicketApi);
   private readonly notifier = inject(Notifier);
   protected readonly session = inject(SessionStore);
+  /** Members see only their own tickets, so the list is theirs. */
+  protected readonly backLabel = computed(() =>
+    this.session.hasAnyRole('technician', 'treasurer', 'admin') ? 'All tickets' : 'My tickets',
+  );
 
   protected readonly ticket = rxResource({
     params: () => this.tag(),
