@@ -57,7 +57,7 @@ test('a refused move puts the card back and says why', async ({ page }) => {
   await dragTo(page, card, page.locator('[data-lane="return"]'));
   await expect(page.locator(`[data-lane="intake"] [data-tag="${tag}"]`)).toBeVisible();
   await expect(page.locator(`[data-lane="return"] [data-tag="${tag}"]`)).toHaveCount(0);
-  await expect(page.getByText(/cannot go from Intake to Return/)).toBeVisible();
+  await expect(page.locator('.mdc-snackbar__label')).toContainText('cannot go from Intake to Return');
 });
 
 test('a member cannot open the Bench board data', async ({ page }) => {
