@@ -1,4 +1,6 @@
-import { describe, it } from 'node:test';
+import { after, describe, it } from 'node:test';
+import { spawnSync } from 'node:child_process';
+import { Readable } from 'node:stream';
 import assert from 'node:assert/strict';
 import { crc32 as zlibCrc32 } from 'node:zlib';
 import fc from 'fast-check';
@@ -6,6 +8,12 @@ import CRC32 from 'crc-32';
 import easyCrc from 'easy-crc';
 import crcPkg16 from 'crc/crc16xmodem';
 import { createImageChecksums, crc16XmodemUpdate, crc32Update, imageChecksums } from './checksums';
+import {
+  ChecksumWorkerPool,
+  checksumStream,
+  createStreamingImageChecksums,
+  type StreamingImageChecksummer,
+} from './checksums-streaming';
 
 const ascii = (s: string) => Buffer.from(s, 'latin1');
 
@@ -129,5 +137,227 @@ describe('the checksummer', () => {
     c.digest();
     assert.throws(() => c.update(ascii('d')), /already digested/);
     assert.throws(() => c.digest(), /already digested/);
+  });
+});
+
+// --- the two-thread streaming checksummer (checksums-streaming.ts) -----------------------------
+// Its results must equal the one-thread checksummer's and the published check values above. A small
+// batch (1000 bytes, not a multiple of 4) and a ring of 3 slots make every path run on small
+// inputs: ring slots, overflow buffers transferred to the worker, and partial last batches.
+
+describe('streaming checksums on two threads', () => {
+  const pool = new ChecksumWorkerPool({ batchBytes: 1000, slots: 3, idleMs: 60_000 });
+  after(() => pool.close());
+  const viaWorker = { pool, workerFromBytes: 0 };
+
+  const feed = (s: StreamingImageChecksummer, bytes: Uint8Array, sizes: number[]) => {
+    let at = 0;
+    for (let i = 0; at < bytes.length; i++) {
+      const n = sizes[i % sizes.length];
+      s.update(bytes.subarray(at, at + n));
+      at += n;
+    }
+    return s;
+  };
+
+  it('check values through the worker: CRC RevEng "123456789", FIPS 180-4 "abc" and the 448-bit message', async () => {
+    const nine = await feed(createStreamingImageChecksums(viaWorker), ascii('123456789'), [2, 3]).digest();
+    assert.equal(nine.crc16Xmodem, '31c3');
+    assert.equal(nine.crc32, 'cbf43926');
+    const abc = createStreamingImageChecksums(viaWorker);
+    abc.update(ascii('abc'));
+    assert.equal((await abc.digest()).sha256, 'ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad');
+    const two = createStreamingImageChecksums(viaWorker);
+    two.update(ascii('abcdbcdecdefdefgefghfghighijhijkijkljklmklmnlmnomnopnopq'));
+    assert.equal((await two.digest()).sha256, '248d6a61d20638b8e5c026930c3e6039a33ce45964ff2167f6ecedd419db06c1');
+    assert.ok(pool.workersStarted >= 1, 'the worker was used');
+  });
+
+  it('FIPS 180-4 one million "a" in uneven chunks, on the default pool and batch size', async () => {
+    const s = createStreamingImageChecksums({ workerFromBytes: 0 });
+    let left = 1_000_000;
+    for (let size = 1; left > 0; size = (size * 7 + 3) % 65_537) {
+      const n = Math.min(left, size);
+      s.update(Buffer.alloc(n, 0x61));
+      left -= n;
+    }
+    assert.equal((await s.digest()).sha256, 'cdc76e5c9914fb9281a1c7e284d73e67f1809a48a497200e046d39ccc7112cd0');
+  });
+
+  it('the empty image, through the worker and on the main thread', async () => {
+    for (const options of [viaWorker, { pool }]) {
+      assert.deepEqual(await createStreamingImageChecksums(options).digest(), {
+        sha256: 'e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855',
+        crc32: '00000000',
+        crc16Xmodem: '0000',
+      });
+    }
+  });
+
+  it('random images and chunkings give exactly the one-thread results', async () => {
+    await fc.assert(
+      fc.asyncProperty(
+        fc.uint8Array({ minLength: 0, maxLength: 12_000 }),
+        fc.array(fc.integer({ min: 1, max: 2500 }), { minLength: 1, maxLength: 12 }),
+        fc.constantFrom(0, 2000, Infinity),
+        fc.nat(7),
+        async (bytes, sizes, workerFromBytes, skip) => {
+          const view = bytes.subarray(Math.min(skip, bytes.length)); // unaligned views too
+          const got = await feed(createStreamingImageChecksums({ pool, workerFromBytes }), view, sizes).digest();
+          assert.deepEqual(got, imageChecksums(view));
+          assert.equal(got.crc16Xmodem, ref.crc16Easy(view).toString(16).padStart(4, '0'));
+        },
+      ),
+      { numRuns: 60 },
+    );
+  });
+
+  it('a 3 MiB image in 64 KiB chunks on the default settings matches the references', async () => {
+    const big = new Uint8Array(3 << 20);
+    for (let i = 0; i < big.length; i++) big[i] = (i * 2654435761) >>> 24;
+    const s = feed(createStreamingImageChecksums(), big, [65_536]);
+    const got = await s.digest();
+    assert.deepEqual(got, imageChecksums(big));
+    assert.equal(got.crc16Xmodem, ref.crc16Pkg(big).toString(16).padStart(4, '0'));
+    assert.equal(got.crc32, ref.crc32Sheet(big).toString(16).padStart(8, '0'));
+    assert.equal(s.pendingBytes, 0);
+  });
+
+  it('images in flight at the same time share the worker and keep apart', async () => {
+    const a = new Uint8Array(7000).map((_, i) => i * 31);
+    const b = new Uint8Array(5500).map((_, i) => i * 17 + 5);
+    const sa = createStreamingImageChecksums(viaWorker);
+    const sb = createStreamingImageChecksums(viaWorker);
+    for (let at = 0; at < 7000; at += 700) {
+      sa.update(a.subarray(at, at + 700));
+      sb.update(b.subarray(at, at + 700));
+    }
+    const [ga, gb] = await Promise.all([sa.digest(), sb.digest()]);
+    assert.deepEqual(ga, imageChecksums(a));
+    assert.deepEqual(gb, imageChecksums(b));
+  });
+
+  it('drained() waits until the worker has summed what was sent', async () => {
+    const s = createStreamingImageChecksums(viaWorker);
+    s.update(new Uint8Array(50_000).fill(7));
+    assert.ok(s.pendingBytes > 0, 'batches are in flight right after update()');
+    await s.drained(0);
+    assert.equal(s.pendingBytes, 0);
+    assert.deepEqual(await s.digest(), imageChecksums(new Uint8Array(50_000).fill(7)));
+  });
+
+  it('refuses a second digest() and any update() after it', async () => {
+    for (const options of [viaWorker, { pool }]) {
+      const s = createStreamingImageChecksums(options);
+      s.update(ascii('abc'));
+      await s.digest();
+      await assert.rejects(s.digest(), /already digested/);
+      assert.throws(() => s.update(ascii('d')), /already digested/);
+    }
+  });
+
+  it('abort() rejects a pending digest, refuses further use and stops a worker nobody else uses', async () => {
+    const own = new ChecksumWorkerPool({ batchBytes: 1000, slots: 3 });
+    const s = createStreamingImageChecksums({ pool: own, workerFromBytes: 0 });
+    s.update(new Uint8Array(10_000));
+    assert.equal(own.running, true);
+    const pending = s.digest();
+    s.abort();
+    await assert.rejects(pending, /aborted/);
+    assert.throws(() => s.update(ascii('x')), /aborted/);
+    await assert.rejects(s.digest(), /aborted/);
+    assert.equal(own.running, false);
+
+    // The next image starts a fresh worker and is right.
+    const again = createStreamingImageChecksums({ pool: own, workerFromBytes: 0 });
+    again.update(ascii('123456789'));
+    assert.equal((await again.digest()).crc32, 'cbf43926');
+    assert.equal(own.workersStarted, 2);
+    await own.close();
+  });
+
+  it('abort() of one image leaves another image on the same worker unharmed', async () => {
+    const keep = createStreamingImageChecksums(viaWorker);
+    const drop = createStreamingImageChecksums(viaWorker);
+    keep.update(ascii('1234'));
+    drop.update(new Uint8Array(4000));
+    drop.abort();
+    keep.update(ascii('56789'));
+    assert.equal((await keep.digest()).crc32, 'cbf43926');
+  });
+
+  it('a worker that crashes makes digest() reject with a clear error; the next image gets a new worker', async () => {
+    const crashing = new ChecksumWorkerPool({
+      batchBytes: 1000,
+      workerSource: `require('node:worker_threads').parentPort.on('message', (m) => {
+        if (m.type === 'data') throw new Error('simulated fault');
+      });`,
+    });
+    const s = createStreamingImageChecksums({ pool: crashing, workerFromBytes: 0 });
+    s.update(new Uint8Array(3000));
+    await assert.rejects(s.digest(), /checksum worker failed: simulated fault/);
+    assert.equal(crashing.running, false);
+    await crashing.close();
+
+    const exiting = new ChecksumWorkerPool({
+      workerSource: `require('node:worker_threads').parentPort.on('message', () => process.exit(3));`,
+    });
+    const e = createStreamingImageChecksums({ pool: exiting, workerFromBytes: 0 });
+    e.update(ascii('abc'));
+    await assert.rejects(e.digest(), /checksum worker exited \(code 3\)/);
+    await exiting.close();
+  });
+
+  it('an update() after the worker failed throws that failure', async () => {
+    const own = new ChecksumWorkerPool({ batchBytes: 1000 });
+    const s = createStreamingImageChecksums({ pool: own, workerFromBytes: 0 });
+    s.update(new Uint8Array(2000));
+    await own.close();
+    assert.throws(() => s.update(new Uint8Array(10)), /checksum worker stopped/);
+    await assert.rejects(s.digest(), /checksum worker stopped/);
+  });
+
+  it('the idle worker ends itself after idleMs', async () => {
+    const own = new ChecksumWorkerPool({ idleMs: 30 });
+    const s = createStreamingImageChecksums({ pool: own, workerFromBytes: 0 });
+    s.update(ascii('abc'));
+    await s.digest();
+    assert.equal(own.running, true);
+    await new Promise((resolve) => setTimeout(resolve, 300));
+    assert.equal(own.running, false);
+  });
+
+  it('checksumStream sums a Readable; a failing stream rejects with its own error', async () => {
+    const bytes = new Uint8Array(1_500_000).map((_, i) => (i * 7) ^ (i >>> 9));
+    const chunks = Array.from({ length: 23 }, (_, k) => Buffer.from(bytes.subarray(k * 65_536, (k + 1) * 65_536)));
+    assert.deepEqual(await checksumStream(Readable.from(chunks), { pool }), imageChecksums(bytes));
+
+    const broken = new Readable({
+      read() {
+        this.push(Buffer.alloc(1000));
+        this.destroy(new Error('connection reset by the member'));
+      },
+    });
+    await assert.rejects(checksumStream(broken, viaWorker), /connection reset by the member/);
+    await assert.rejects(checksumStream(Readable.from(['text']), { pool }), /needs bytes/);
+  });
+
+  it('leaves no worker that keeps a process alive (a child process on the default pool exits at once)', () => {
+    const script = [
+      `import { checksumStream } from ${JSON.stringify(new URL('./checksums-streaming.ts', import.meta.url).href)};`,
+      `const sums = await checksumStream([new Uint8Array(2_000_000).fill(1)]);`,
+      `const done = performance.now();`,
+      `process.on('exit', () => console.log(sums.crc16Xmodem.length, Math.round(performance.now() - done)));`,
+    ].join('\n');
+    const child = spawnSync(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], {
+      encoding: 'utf8',
+      timeout: 20_000,
+    });
+    assert.equal(child.error, undefined, 'the child exited by itself within 20 s');
+    assert.equal(child.status, 0, child.stderr);
+    const [digits, msToExit] = child.stdout.trim().split(' ').map(Number);
+    assert.equal(digits, 4);
+    // The pool's idle timeout is 10 s: a worker that held the process would show here.
+    assert.ok(msToExit < 2000, `the child took ${msToExit} ms after its digest to exit`);
   });
 });
