@@ -4,18 +4,26 @@
 // On one thread the per-byte costs add up (measured here: SHA-256 ~0.6 ms/MB, CRC-32 ~0.25,
 // CRC-16/XMODEM in JS ~0.6-0.75), so "all three" can never reach half of SHA-256 alone. Here the
 // main thread computes CRC-16/XMODEM (the JS table code of checksums.ts) and copies each chunk into
-// a batch buffer; a worker thread computes SHA-256 and CRC-32 (both native: node:crypto, node:zlib)
-// from those batches. Batches are transferred, not cloned, and the worker hands each one back for
-// reuse, so a 16 MiB image costs one memcpy on the main thread and ~64 messages each way.
+// a batch; a worker thread computes SHA-256 and CRC-32 (both native: node:crypto, node:zlib) from
+// the batches. The split follows those costs: the main thread also pays for the copy (~0.1 ms/MB)
+// and the messages, so CRC-32 goes to the worker (about 0.85 ms/MB on each side).
 //
-// Which sums go where was measured (bench/checksums.ts): the main thread also pays for the copy and
-// the messages, so it keeps the smaller share.
+// Getting the bytes across: batches (256 KiB) are written into slots of a SharedArrayBuffer ring
+// that the worker frees with Atomics.store once summed, so the main thread reuses them without
+// waiting for a message and allocates nothing; a message per batch says which slot to read. When
+// every slot is busy, a batch goes in an ArrayBuffer of its own that is transferred (not cloned).
+// Never post a chunk as it comes: a Buffer view is cloned with its whole backing store (a 64 KiB
+// subarray of a 16 MiB buffer copies 16 MiB, measured at ~5 ms per message here). bench/checksums.ts
+// runs the ring and a transfer-only pool side by side.
 //
 // The worker is one long-lived thread shared by every checksummer in the process (a pool of one):
 // starting a thread costs ~25-40 ms here, more than summing a 16 MiB image. It is unref'd whenever
 // no image is in flight, so it never keeps a process (or a test run) alive, and it ends itself after
 // `idleMs` without work. Images that end before `workerFromBytes` (1 MiB by default) never touch the
 // worker: their batches are summed on the main thread at digest().
+//
+// Back-pressure: update() never blocks, so a producer faster than the worker piles up batches.
+// checksumStream() pauses reading above 8 MiB in flight; direct callers can await drained().
 //
 // The worker body is plain JavaScript (eval: true) that needs only node:crypto and node:zlib, so it
 // runs the same under tsx, under `node --test` and in a compiled build, and it does not load tsx.
@@ -391,7 +399,15 @@ export function createStreamingImageChecksums(options: StreamingOptions = {}): S
     if (job) return ship(b, batchBytes);
     held.push(b);
     heldBytes += batchBytes;
-    if (heldBytes >= workerFromBytes) handOff();
+    if (heldBytes < workerFromBytes) return;
+    try {
+      handOff();
+    } catch (error) {
+      // The worker could not be started: this image cannot continue.
+      state = 'failed';
+      failure = error as Error;
+      throw error;
+    }
   };
 
   const handOff = () => {

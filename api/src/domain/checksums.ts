@@ -10,6 +10,9 @@
 //   CRC-32 comes from node:zlib's crc32 (zlib's own, native). CRC-16/XMODEM is a table-driven
 //   "slice-by-16" written here: measured side by side on this machine it ran at ~1300 MB/s against
 //   ~270-310 MB/s for the `crc` package's crc16xmodem (see bench/checksums.ts and the report).
+//
+// On one thread the three per-byte costs add up; checksums-streaming.ts computes the same sums on two
+// threads (async digest) for uploads.
 
 import { createHash, type Hash } from 'node:crypto';
 import { crc32 as zlibCrc32 } from 'node:zlib';
