@@ -33,8 +33,8 @@ test('forged tokens are refused with 401: alg none, edited claims, expired, wron
   const admin = await createUser(t.sequelize, ADMIN);
   const tech = await createUser(t.sequelize, TECH);
   const secret = t.config.RW_JWT_SECRET;
-  const good = { gen: 0, sub: String(admin.id), jti: 'abcdefghijklmnopqrstuv', iss: 'rigwright', aud: 'rigwright-web' };
   const now = Math.floor(Date.now() / 1000);
+  const good = { gen: 0, sub: String(admin.id), jti: 'abcdefghijklmnopqrstuv', iss: 'rigwright', aud: 'rigwright-web', at: now };
 
   // Control: a token built the way the server builds it passes, so the refusals below mean something.
   const control = jwt.sign({ ...good, exp: now + 600 }, secret, { algorithm: 'HS256' });
@@ -216,4 +216,32 @@ test('password reset: 202 always; one outbox mail with a single-use link; confir
   assert.equal(expired.body.error.code, 'reset_token_invalid');
   const forged = await anon.post('/api/auth/password-reset/confirm', { token: 'A'.repeat(43), newPassword: 'yet another walk' }).expect(400);
   assert.equal(forged.body.error.code, 'reset_token_invalid');
+});
+
+test('a session past half its life is renewed on use, keeping its id, but never past the maximum', async () => {
+  const t = await app();
+  const admin = await createUser(t.sequelize, ADMIN);
+  const secret = t.config.RW_JWT_SECRET;
+  const now = Math.floor(Date.now() / 1000);
+  const life = t.config.RW_SESSION_MINUTES * 60;
+  const claims = { gen: 0, sub: String(admin.id), jti: 'renewal-session-id-0001', iss: 'rigwright', aud: 'rigwright-web' };
+
+  // Fresh (most of its life left): no new cookie.
+  const fresh = await withToken(t, jwt.sign({ ...claims, at: now, exp: now + life - 60 }, secret, { algorithm: 'HS256' }));
+  const freshRes = await fresh.get('/api/users').expect(200);
+  assert.ok(!(freshRes.headers['set-cookie'] as unknown as string[] | undefined)?.some((c) => c.startsWith('rw_session=')));
+
+  // A quarter of its life left: a new token for the same session, with a later expiry.
+  const old = await withToken(t, jwt.sign({ ...claims, at: now - 3600, exp: now + Math.floor(life / 4) }, secret, { algorithm: 'HS256' }));
+  await old.get('/api/users').expect(200);
+  const renewed = jwt.decode(old.cookie('rw_session')!) as jwt.JwtPayload;
+  assert.equal(renewed.jti, claims.jti, 'same session id, so the anti-forgery token stays valid');
+  assert.equal(renewed.at, now - 3600, 'sign-in time carried over');
+  assert.ok(renewed.exp! >= now + life - 5, 'expiry pushed out by a full session length');
+
+  // Signed in 12 hours ago: still valid until it expires, but not renewed.
+  const ancient = await withToken(t, jwt.sign({ ...claims, jti: 'renewal-session-id-0002', at: now - 12 * 3600, exp: now + 60 }, secret, { algorithm: 'HS256' }));
+  const ancientRes = await ancient.get('/api/auth/session').expect(200);
+  assert.equal(ancientRes.body.user?.id, admin.id);
+  assert.ok(!((ancientRes.headers['set-cookie'] as unknown as string[] | undefined) ?? []).some((c) => c.startsWith('rw_session=')));
 });

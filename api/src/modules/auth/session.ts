@@ -6,7 +6,7 @@ import type { NextFunction, Request, Response } from 'express';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import type { AppDeps } from '../../app';
 import { ROLES, type Role, type SessionUser } from './session-user';
-import { SESSION_COOKIE, clearSessionCookie, verifySessionToken } from './tokens';
+import { SESSION_COOKIE, clearSessionCookie, setSessionCookie, shouldRenew, signSessionToken, verifySessionToken } from './tokens';
 
 interface SessionRow {
   id: number;
@@ -78,6 +78,10 @@ export function sessionMiddleware(deps: AppDeps) {
       return next();
     }
     state.sessionId = claims.jti;
+    if (shouldRenew(config, claims)) {
+      const renewed = signSessionToken(config, user.id, user.sessionGeneration, { sessionId: claims.jti, signedInAt: claims.at });
+      setSessionCookie(res, config, renewed.token);
+    }
     req.user = { id: user.id, email: user.email, displayName: user.displayName, callSign: user.callSign, roles: user.roles };
     next();
   };
