@@ -4,7 +4,7 @@
 import { after, before, test } from 'node:test';
 import assert from 'node:assert/strict';
 import { anonymous, createUser, registeredRoutes, setupTestApp, signIn, tableSnapshot, type TestApp, type TestClient } from '../test/helpers';
-import type { Role } from './modules/auth/session-user';
+import type { Role } from './contracts/accounts';
 
 type Actor = 'anonymous' | 'owner' | 'otherMember' | 'technician' | 'treasurer' | 'admin';
 const ACTORS: Actor[] = ['anonymous', 'owner', 'otherMember', 'technician', 'treasurer', 'admin'];

@@ -20,7 +20,7 @@ import { initModels } from '../src/models';
 import { createApp } from '../src/app';
 import { migrateUp } from '../../db/migrator';
 import { hashPassword } from '../src/modules/auth/passwords';
-import type { Role } from '../src/modules/auth/session-user';
+import type { Role } from '../src/contracts/accounts';
 import { User, UserRole } from '../src/modules/users/user.model';
 
 export type ConfigOverrides = Partial<Record<keyof Config, string>>;

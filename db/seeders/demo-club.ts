@@ -2,7 +2,7 @@
 // piece of equipment here is invented. Call signs use the prefix Q, which the ITU has not
 // allocated to any country. Makes and models are our own inventions (fenland bird names), not
 // real manufacturers' products.
-import type { Role } from '../../api/src/modules/auth/session-user';
+import type { Role } from '../../api/src/contracts/accounts';
 import type { TicketState } from '../../api/src/domain/workflow';
 
 export interface DemoAccount {

@@ -7,7 +7,8 @@ import type { Logger } from '../../logger';
 import { AppError, ValidationError } from '../../errors';
 import { enqueueMail } from '../outbox/outbox.service';
 import { PasswordReset, User } from '../users/user.model';
-import { assertPasswordAcceptable, createAccount, findUser, findUserByEmail, toPublicUser, type PublicUser } from '../users/users.service';
+import type { User as PublicUser } from '../../contracts/accounts';
+import { assertPasswordAcceptable, createAccount, findUser, findUserByEmail, toPublicUser } from '../users/users.service';
 
 export { toPublicUser as publicUser };
 import { argon2ParamsFromConfig, dummyHashFor, hashPassword, needsRehash, verifyPassword } from './passwords';

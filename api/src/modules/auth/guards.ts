@@ -1,7 +1,8 @@
 // Route guards: deny by default. Object ownership is checked in the services, which know the rows.
 import type { NextFunction, Request, Response } from 'express';
 import { ForbiddenError, UnauthenticatedError } from '../../errors';
-import type { Role, SessionUser } from './session-user';
+import type { Role } from '../../contracts/accounts';
+import type { SessionUser } from './session-user';
 
 export function hasRole(user: SessionUser | undefined, ...roles: Role[]): boolean {
   return !!user && roles.some((r) => user.roles.includes(r));

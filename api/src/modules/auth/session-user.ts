@@ -1,6 +1,5 @@
 // The signed-in person as every handler sees it (req.user), set by the session middleware.
-export const ROLES = ['member', 'technician', 'treasurer', 'admin'] as const;
-export type Role = (typeof ROLES)[number];
+import type { Role } from '../../contracts/accounts';
 
 export interface SessionUser {
   id: number;

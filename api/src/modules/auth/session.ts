@@ -5,7 +5,8 @@
 import type { NextFunction, Request, Response } from 'express';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import type { AppDeps } from '../../app';
-import { ROLES, type Role, type SessionUser } from './session-user';
+import { ROLES, type Role } from '../../contracts/accounts';
+import type { SessionUser } from './session-user';
 import { SESSION_COOKIE, clearSessionCookie, setSessionCookie, shouldRenew, signSessionToken, verifySessionToken } from './tokens';
 
 interface SessionRow {

@@ -8,38 +8,11 @@
 import { createHash } from 'node:crypto';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { BOARD_LANES, type TicketState } from '../../domain/workflow';
-import type { EquipmentKind } from '../tickets/ticket.model';
+import type { Board, Card, Flag, Lane } from '../../contracts/board';
+import type { EquipmentKind } from '../../contracts/tickets';
 import { formatTag } from '../tickets/tag';
 import { ticketSearchSql } from '../tickets/ticket-search';
 import { readBoardSettings } from './board-revision';
-
-export type Flag = 'awaiting_approval' | 'parts_on_order' | 'balance_due' | 'test_failed';
-
-export interface Card {
-  id: number;
-  tag: string;
-  equipmentKind: EquipmentKind;
-  makeModel: string;
-  ownerName: string;
-  ownerCallSign: string | null;
-  state: TicketState;
-  stateSince: string;
-  version: number;
-  technicianName: string | null;
-  flags: Flag[];
-}
-
-export interface Lane {
-  state: TicketState;
-  count: number;
-  oldestSince: string | null;
-}
-
-export interface Board {
-  lanes: Lane[];
-  cards: Card[];
-  waitLimitHours: number;
-}
 
 export interface BoardFilters {
   /** A technician's user id, or 'none' for cards nobody has taken yet. */

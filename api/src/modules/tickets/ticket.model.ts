@@ -9,13 +9,8 @@ import {
   type InferCreationAttributes,
   type Sequelize,
 } from 'sequelize';
+import { EQUIPMENT_KINDS, EVENT_KINDS, type EquipmentKind, type EventKind } from '../../contracts/tickets';
 import { STATES, type TicketState } from '../../domain/workflow';
-
-export const EQUIPMENT_KINDS = ['transceiver', 'amplifier', 'tuner', 'power_supply', 'cable', 'accessory', 'other'] as const;
-export type EquipmentKind = (typeof EQUIPMENT_KINDS)[number];
-
-export const EVENT_KINDS = ['opened', 'moved', 'note'] as const;
-export type EventKind = (typeof EVENT_KINDS)[number];
 
 export class Ticket extends Model<InferAttributes<Ticket>, InferCreationAttributes<Ticket>> {
   declare id: CreationOptional<number>;

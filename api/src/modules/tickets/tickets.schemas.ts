@@ -2,7 +2,7 @@
 // ownerUserId, ...) is refused with 400 rather than ignored, so nothing can be mass-assigned.
 import { z } from 'zod';
 import { STATES } from '../../domain/workflow';
-import { EQUIPMENT_KINDS } from './ticket.model';
+import { EQUIPMENT_KINDS } from '../../contracts/tickets';
 
 const optionalText = (max: number, message: string) =>
   z

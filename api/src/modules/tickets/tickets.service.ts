@@ -9,7 +9,9 @@ import { hasRole } from '../auth/guards';
 import type { SessionUser } from '../auth/session-user';
 import { enqueueMail } from '../outbox/outbox.service';
 import { bumpBoardRevision } from '../board/board-revision';
-import { Ticket, TicketEvent, type EquipmentKind, type EventKind } from './ticket.model';
+import type { Page } from '../../contracts/lists';
+import type { EquipmentKind, EventKind, MoveOption, TicketDetail, TicketEventDto, TicketRow } from '../../contracts/tickets';
+import { Ticket, TicketEvent } from './ticket.model';
 import { formatTag, parseTag } from './tag';
 import { ticketSearchSql } from './ticket-search';
 import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
@@ -17,62 +19,6 @@ import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
 export interface TicketsDeps {
   sequelize: Sequelize;
   config: Pick<Config, 'RW_PUBLIC_URL'>;
-}
-
-export interface TicketRow {
-  id: number;
-  tag: string;
-  equipmentKind: EquipmentKind;
-  makeModel: string;
-  ownerName: string;
-  state: TicketState;
-  stateSince: string;
-  createdAt: string;
-}
-
-export interface TicketEventDto {
-  id: number;
-  at: string;
-  actorName: string | null;
-  kind: EventKind;
-  fromState: TicketState | null;
-  toState: TicketState | null;
-  note: string | null;
-}
-
-export interface MoveOption {
-  to: TicketState;
-  allowed: boolean;
-  /** Why not; or, with noteRequired, what the note must say. */
-  reason?: string;
-  /** The move is allowed once the mover writes a note (e.g. why it goes back unrepaired). */
-  noteRequired?: boolean;
-}
-
-export interface TicketDetail extends TicketRow {
-  version: number;
-  serialNumber: string | null;
-  units: string[];
-  faultReported: string;
-  accessories: string[];
-  firmwareVersions: string | null;
-  reflashConsent: boolean;
-  notifyByEmail: boolean;
-  ownerEmail: string;
-  ownerPhone: string | null;
-  ownerCallSign: string | null;
-  technicianName: string | null;
-  awaitingApproval: boolean;
-  partsOnOrder: boolean;
-  events: TicketEventDto[];
-  moves: MoveOption[];
-}
-
-export interface Page<T> {
-  items: T[];
-  total: number;
-  page: number;
-  pageSize: number;
 }
 
 export const STALE_VERSION_MESSAGE = 'Someone else moved this ticket a moment ago; the board has been refreshed.';

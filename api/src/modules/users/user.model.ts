@@ -10,7 +10,7 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
-import { ROLES, type Role } from '../auth/session-user';
+import { ROLES, type Role } from '../../contracts/accounts';
 
 export class User extends Model<InferAttributes<User, { omit: 'roleRows' }>, InferCreationAttributes<User, { omit: 'roleRows' }>> {
   declare id: CreationOptional<number>;

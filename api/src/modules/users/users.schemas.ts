@@ -1,6 +1,6 @@
 // Request bodies and queries of the admin accounts routes. Strict objects: no mass assignment.
 import { z } from 'zod';
-import { ROLES } from '../auth/session-user';
+import { ROLES } from '../../contracts/accounts';
 import { callSign, displayName, email, passwordInput } from '../auth/auth.schemas';
 
 const roles = z

@@ -4,25 +4,13 @@ import { Op, UniqueConstraintError, type Sequelize, type Transaction, type Where
 import type { Config } from '../../config';
 import { ConflictError, NotFoundError, ValidationError } from '../../errors';
 import { argon2ParamsFromConfig, hashPassword, passwordProblem } from '../auth/passwords';
-import type { Role, SessionUser } from '../auth/session-user';
+import type { Role, User as PublicUser, UserRow } from '../../contracts/accounts';
+import type { Page } from '../../contracts/lists';
+import type { SessionUser } from '../auth/session-user';
 import { User, UserRole } from './user.model';
 import type { ListUsersQuery, PatchUserBody } from './users.schemas';
 
 /** `User` of the API contract: only these fields leave the server. */
-export interface PublicUser {
-  id: number;
-  email: string;
-  displayName: string;
-  callSign: string | null;
-  roles: Role[];
-}
-
-/** `UserRow` of the API contract (admin views). */
-export interface UserRow extends PublicUser {
-  disabled: boolean;
-  createdAt: string;
-}
-
 export function toPublicUser(u: SessionUser | User): PublicUser {
   return { id: u.id, email: u.email, displayName: u.displayName, callSign: u.callSign ?? null, roles: [...u.roles] };
 }
@@ -79,18 +67,11 @@ export async function findUserByEmail(email: string, transaction?: Transaction):
   return User.findOne({ where: { email: email.trim().toLowerCase() }, include: [{ model: UserRole, as: 'roleRows' }], transaction });
 }
 
-export interface UserPage {
-  items: UserRow[];
-  total: number;
-  page: number;
-  pageSize: number;
-}
-
 function escapeLike(s: string): string {
   return s.replace(/[\\%_]/g, (c) => `\\${c}`);
 }
 
-export async function listUsers(query: ListUsersQuery): Promise<UserPage> {
+export async function listUsers(query: ListUsersQuery): Promise<Page<UserRow>> {
   const where: WhereOptions<User> = query.q
     ? {
         [Op.or]: [

@@ -1,0 +1,38 @@
+// The API's data shapes shared with the client (imported there as `@contracts/board`).
+// Plain TypeScript: types and `as const` lists only, no framework or node imports.
+import type { TicketState } from '../domain/workflow';
+import type { EquipmentKind } from './tickets';
+
+/** Flags on a card of `GET /api/board` (`balance_due` and `test_failed` arrive with fees and test sheets). */
+export const FLAGS = ['awaiting_approval', 'parts_on_order', 'balance_due', 'test_failed'] as const;
+export type Flag = (typeof FLAGS)[number];
+
+/** A card of `GET /api/board`: one open ticket (cards come oldest in lane first). */
+export interface Card {
+  id: number;
+  tag: string;
+  equipmentKind: EquipmentKind;
+  makeModel: string;
+  ownerName: string;
+  ownerCallSign: string | null;
+  state: TicketState;
+  stateSince: string;
+  version: number;
+  technicianName: string | null;
+  flags: Flag[];
+}
+
+/** A lane summary of `GET /api/board` (the six board lanes in workflow order, always all six). */
+export interface Lane {
+  state: TicketState;
+  count: number;
+  oldestSince: string | null;
+}
+
+/** `GET /api/board`. */
+export interface Board {
+  lanes: Lane[];
+  cards: Card[];
+  /** Hours a card may wait in a lane before it gets an amber edge (twice that: a stronger one). */
+  waitLimitHours: number;
+}
