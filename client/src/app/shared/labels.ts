@@ -1,4 +1,10 @@
 import { STATE_LABELS, TicketState } from '@domain/workflow';
+import { FLAGS, Flag } from '@contracts/board';
+import { EQUIPMENT_KINDS, EquipmentKind } from '@contracts/tickets';
+
+// The code lists are the API's (api/src/contracts/); the words and icons for them live here.
+export { EQUIPMENT_KINDS, FLAGS };
+export type { EquipmentKind, Flag };
 
 // Words and icons for states and flags: status is never colour alone (design-language.md).
 
@@ -16,9 +22,6 @@ export function stateLabel(state: TicketState): string {
   return STATE_LABELS[state] ?? state;
 }
 
-export const FLAGS = ['awaiting_approval', 'parts_on_order', 'balance_due', 'test_failed'] as const;
-export type Flag = (typeof FLAGS)[number];
-
 export const FLAG_LABELS: Record<Flag, string> = {
   awaiting_approval: 'Owner to approve',
   parts_on_order: 'Parts on order',
@@ -32,9 +35,6 @@ export const FLAG_ICONS: Record<Flag, string> = {
   balance_due: 'payments',
   test_failed: 'report',
 };
-
-export const EQUIPMENT_KINDS = ['transceiver', 'amplifier', 'tuner', 'power_supply', 'cable', 'accessory', 'other'] as const;
-export type EquipmentKind = (typeof EQUIPMENT_KINDS)[number];
 
 export const EQUIPMENT_KIND_LABELS: Record<EquipmentKind, string> = {
   transceiver: 'Transceiver',

@@ -1,5 +1,9 @@
-export const ROLES = ['member', 'technician', 'treasurer', 'admin'] as const;
-export type Role = (typeof ROLES)[number];
+import { ROLES, Role } from '@contracts/accounts';
+
+// Roles and the signed-in person are the API's shapes (api/src/contracts/accounts.ts); bodies are the client's.
+export { ROLES };
+export type { Role };
+export type { User } from '@contracts/accounts';
 
 export const ROLE_LABELS: Record<Role, string> = {
   member: 'Member',
@@ -7,15 +11,6 @@ export const ROLE_LABELS: Record<Role, string> = {
   treasurer: 'Treasurer',
   admin: 'Admin',
 };
-
-/** The signed-in person, as `GET /api/auth/session` returns it. */
-export interface User {
-  id: number | string;
-  email: string;
-  displayName: string;
-  callSign: string | null;
-  roles: Role[];
-}
 
 export interface SignInBody {
   email: string;

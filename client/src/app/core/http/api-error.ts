@@ -42,14 +42,6 @@ function isStringRecord(value: unknown): value is Record<string, string> {
   return !!value && typeof value === 'object' && Object.values(value).every((v) => typeof v === 'string');
 }
 
-/** A page of a list, as every list route answers. */
-export interface Page<T> {
-  items: T[];
-  total: number;
-  page: number;
-  pageSize: number;
-}
-
 /** Query of a list route: `?page=1&pageSize=25&sort=field&dir=asc|desc&q=text`. */
 export interface ListQuery {
   page: number;

@@ -1,13 +1,9 @@
+import { Role } from '@contracts/accounts';
 import { ListQuery } from '../../core/http/api-error';
-import { Role, User } from '../../core/auth/auth.models';
 
+// The rows are the API's shape (api/src/contracts/accounts.ts); queries and bodies are the client's.
 export type { Role };
-
-/** A row of `GET /api/users`. */
-export interface UserRow extends User {
-  disabled: boolean;
-  createdAt: string;
-}
+export type { UserRow } from '@contracts/accounts';
 
 export type AccountSort = 'email' | 'displayName' | 'createdAt';
 

@@ -1,7 +1,8 @@
 import { HttpClient, HttpContext } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { Observable } from 'rxjs';
-import { HANDLES_OWN_ERRORS, Page, queryParams } from '../../core/http/api-error';
+import { Page } from '@contracts/lists';
+import { HANDLES_OWN_ERRORS, queryParams } from '../../core/http/api-error';
 import { IntakeBody, MoveBody, TicketDetail, TicketQuery, TicketRow } from './ticket.models';
 
 /** The ticket routes of the API. */

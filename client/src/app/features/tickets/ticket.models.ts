@@ -1,56 +1,11 @@
 import { TicketState } from '@domain/workflow';
+import { EquipmentKind } from '@contracts/tickets';
 import { ListQuery } from '../../core/http/api-error';
-import { EquipmentKind, Flag } from '../../shared/labels';
 
-export type { TicketState, EquipmentKind, Flag };
-
-/** A row of `GET /api/tickets`. */
-export interface TicketRow {
-  id: number | string;
-  tag: string;
-  equipmentKind: EquipmentKind;
-  makeModel: string;
-  ownerName: string;
-  state: TicketState;
-  stateSince: string;
-  createdAt: string;
-}
-
-export interface TicketEvent {
-  id: number | string;
-  at: string;
-  actorName: string | null;
-  kind: 'opened' | 'moved' | 'note';
-  fromState: TicketState | null;
-  toState: TicketState | null;
-  note: string | null;
-}
-
-export interface TicketMoveOption {
-  to: TicketState;
-  allowed: boolean;
-  /** Allowed once a note for the timeline is given (the reason then says what to write). */
-  noteRequired?: boolean;
-  reason?: string;
-}
-
-/** `GET /api/tickets/:tag`. */
-export interface TicketDetail extends TicketRow {
-  version: number;
-  serialNumber: string | null;
-  units: string[];
-  faultReported: string;
-  accessories: string[];
-  firmwareVersions: string | null;
-  reflashConsent: boolean;
-  notifyByEmail: boolean;
-  ownerEmail: string | null;
-  ownerPhone: string | null;
-  ownerCallSign: string | null;
-  technicianName: string | null;
-  events: TicketEvent[];
-  moves: TicketMoveOption[];
-}
+// What the server sends is the API's own (api/src/contracts/tickets.ts); bodies and queries are the client's.
+export type { TicketState };
+export type { EquipmentKind, MoveOption, TicketDetail, TicketEventDto, TicketRow } from '@contracts/tickets';
+export type { Flag } from '@contracts/board';
 
 export interface TicketOwnerBody {
   name: string;

@@ -15,7 +15,7 @@ const iso = (hoursAgo: number) => new Date(Date.now() - hoursAgo * HOUR).toISOSt
 
 function card(tag: string, state: TicketState, extra: Partial<Card> = {}): Card {
   return {
-    id: tag,
+    id: Number(tag.slice(3)),
     tag,
     equipmentKind: 'transceiver',
     makeModel: 'Kestrel QX-7',

@@ -31,6 +31,8 @@ function detail(extra: Partial<TicketDetail> = {}): TicketDetail {
     ownerPhone: null,
     ownerCallSign: 'Q3PSW',
     technicianName: 'Tobin Marsh',
+    awaitingApproval: false,
+    partsOnOrder: false,
     events: [
       { id: 1, at: '2026-11-30T18:00:00Z', actorName: 'Perrin Sallow', kind: 'opened', fromState: null, toState: 'intake', note: null },
       { id: 2, at: '2026-11-30T19:00:00Z', actorName: 'Tobin Marsh', kind: 'moved', fromState: 'intake', toState: 'diagnosis', note: 'Taking it.' },

@@ -18,7 +18,7 @@ import { Caution } from '../../../shared/caution/caution';
 import { equipmentKindLabel, stateLabel } from '../../../shared/labels';
 import { StateChip } from '../../../shared/state-chip/state-chip';
 import { TicketApi } from '../ticket-api';
-import { TicketDetail, TicketMoveOption } from '../ticket.models';
+import { TicketDetail, MoveOption } from '../ticket.models';
 
 /** One ticket: what was handed in, by whom, where it is now, and everything that happened to it. */
 @Component({
@@ -67,7 +67,7 @@ export class TicketPage {
   private readonly note = toSignal(this.noteForm.controls.note.valueChanges, { initialValue: '' });
 
   /** Only the lanes the workflow allows from here; the others are not choices at all. */
-  protected readonly moves = computed<TicketMoveOption[]>(() => {
+  protected readonly moves = computed<MoveOption[]>(() => {
     if (!this.ticket.hasValue()) return [];
     const t = this.ticket.value();
     const lanes = ALLOWED_MOVES[t.state] ?? [];
@@ -79,7 +79,7 @@ export class TicketPage {
    * `noteRequired`) becomes possible once a note of 3+ characters is written; the server checks
    * again and answers with its reason if something else is missing.
    */
-  protected canMove(ticket: TicketDetail, option: TicketMoveOption): boolean {
+  protected canMove(ticket: TicketDetail, option: MoveOption): boolean {
     const noteMove =
       option.noteRequired ||
       (!option.allowed &&
@@ -88,7 +88,7 @@ export class TicketPage {
     return option.allowed;
   }
 
-  protected move(ticket: TicketDetail, option: TicketMoveOption): void {
+  protected move(ticket: TicketDetail, option: MoveOption): void {
     if (!this.canMove(ticket, option) || this.moving()) return;
     this.moveError.set('');
     this.moving.set(true);
