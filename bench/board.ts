@@ -32,8 +32,8 @@ function child(args: string[]) {
   return c;
 }
 
-async function measure(title: string, url: string, headers: Record<string, string>) {
-  const result = await autocannon({ url, connections: CONNECTIONS, duration: SECONDS, headers });
+async function measure(title: string, url: string, headers: Record<string, string>, duration = SECONDS) {
+  const result = await autocannon({ url, connections: CONNECTIONS, duration, headers });
   if (result.non2xx > 0 || result.errors > 0) throw new Error(`${title}: ${result.non2xx} non-2xx answers, ${result.errors} errors`);
   return { title, rps: result.requests.average, p99: result.latency.p99, bytes: result.throughput.average };
 }
@@ -69,8 +69,8 @@ try {
   await waitFor(`http://127.0.0.1:${BARE_PORT}/api/board`, 'the bare route', bare);
 
   // Warm both, then measure side by side.
-  await measure('warm-up board', `http://127.0.0.1:${API_PORT}/api/board`, { cookie }).catch((e) => { throw e; });
-  await measure('warm-up bare', `http://127.0.0.1:${BARE_PORT}/api/board`, {});
+  await measure('warm-up board', `http://127.0.0.1:${API_PORT}/api/board`, { cookie }, 3);
+  await measure('warm-up bare', `http://127.0.0.1:${BARE_PORT}/api/board`, {}, 3);
   const bareResult = await measure('bare Express route, JSON from memory', `http://127.0.0.1:${BARE_PORT}/api/board`, {});
   const boardResult = await measure('GET /api/board (signed in, 500 open tickets)', `http://127.0.0.1:${API_PORT}/api/board`, { cookie });
 

@@ -4,6 +4,7 @@
 // real manufacturers' products.
 import type { Role } from '../../api/src/contracts/accounts';
 import type { TicketState } from '../../api/src/domain/workflow';
+import type { EquipmentKind } from '../../api/src/contracts/tickets';
 
 export interface DemoAccount {
   email: string;
@@ -34,7 +35,6 @@ export const DEMO_ACCOUNTS: DemoAccount[] = [
   { email: 'rufus.lodden@kestrelfen.example', displayName: 'Rufus Lodden', callSign: 'Q5RLD', roles: ['member'], password: null },
 ];
 
-export type EquipmentKind = 'transceiver' | 'amplifier' | 'tuner' | 'power_supply' | 'cable' | 'accessory' | 'other';
 
 export interface DemoTicket {
   /** Owner's e-mail (one of DEMO_ACCOUNTS), or an owner without an account. */
