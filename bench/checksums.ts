@@ -4,8 +4,9 @@
 // hits all alike; the median MB/s (1 MB = 10^6 bytes) of the rounds is printed. "All three" is fed
 // in 64 KiB chunks as a streamed upload would be, and compared with Node's native SHA-256 alone on
 // the same buffer in the same chunks (and one-shot).
-// "two threads" is createStreamingImageChecksums (checksums-streaming.ts): CRC-16 on this thread,
-// SHA-256 and CRC-32 in the pool's worker; its time runs from the first update() until digest()
+// "two threads" is createStreamingImageChecksums (checksums-streaming.ts): SHA-256 in the pool's
+// worker, each batch's CRCs on whichever thread is free ("balanced", the default), or with a fixed
+// split (CRC-16 on main, CRC-32 in the worker); its time runs from the first update() until digest()
 // resolves. Its worker is started during the warm-up and reused, as in the API process; the cost of
 // a cold start is measured separately. The machine is shared, so the load average and the CPU time
 // the two-thread runs got (CPU ms per wall ms: 2.0 = two full cores) are printed beside the figures.
@@ -28,13 +29,14 @@ function chunks(fn: (chunk: Buffer) => void) {
 }
 
 const TWO = 'all three, two threads, 64 KiB chunks';
+const TWO_CRC16_HERE = 'all three, two threads, fixed split';
 const TWO_TRANSFER = 'all three, two threads, transfer only (no ring)';
 const ringPool = new ChecksumWorkerPool();
 const transferPool = new ChecksumWorkerPool({ slots: 0 });
 const twoThreadCpu: number[] = [];
 
-async function twoThreads(pool: ChecksumWorkerPool) {
-  const c = createStreamingImageChecksums({ pool });
+async function twoThreads(pool: ChecksumWorkerPool, share: 'balanced' | 'crc16-here' = 'balanced') {
+  const c = createStreamingImageChecksums({ pool, share });
   chunks((x) => c.update(x));
   return c.digest();
 }
@@ -61,6 +63,7 @@ const candidates: Record<string, () => unknown> = {
     return c.digest();
   },
   [TWO]: () => twoThreads(ringPool),
+  [TWO_CRC16_HERE]: () => twoThreads(ringPool, 'crc16-here'),
   [TWO_TRANSFER]: () => twoThreads(transferPool),
 };
 
@@ -116,6 +119,7 @@ function report(times: Record<string, number[]>, coldMs: number, load0: number) 
   const ratio = mbps['all three in one pass, 64 KiB chunks'] / sha;
   console.log(`ratio all three (one thread) / SHA-256 alone (both in 64 KiB chunks): ${ratio.toFixed(2)} (aim ≥ 0.5)`);
   console.log(`ratio all three (two threads) / SHA-256 alone (both in 64 KiB chunks): ${(mbps[TWO] / sha).toFixed(2)} (aim ≥ 0.5)`);
+  console.log(`ratio all three (two threads, fixed split) / SHA-256 alone: ${(mbps[TWO_CRC16_HERE] / sha).toFixed(2)}`);
   console.log(`ratio all three (two threads, transfer only) / SHA-256 alone: ${(mbps[TWO_TRANSFER] / sha).toFixed(2)}`);
   console.log(`two threads: CPU ms per wall ms, median ${median(twoThreadCpu).toFixed(2)} (2.00 = both cores for us)`);
   console.log(`two threads, cold start (new worker) for one 16 MiB image: ${coldMs.toFixed(0)} ms`);

@@ -31,6 +31,7 @@
 import { Worker } from 'node:worker_threads';
 import { createHash } from 'node:crypto';
 import { crc16XmodemUpdate, crc32Update, type ImageChecksums } from './checksums';
+import { crc16XmodemCombine, crc32IsoHdlcCombine } from './checksums-combine';
 
 export interface StreamingImageChecksummer {
   /**
@@ -71,50 +72,103 @@ interface Batch {
   bytes: Uint8Array;
 }
 
-/** Messages, in the order the main thread sends them for one image: start, data..., end. */
+/**
+ * Messages, in the order the main thread sends them for one image: start, data..., end. The worker
+ * always feeds SHA-256; `seg` numbers the batches of an image, and `crc16` / `crc32` ask the worker
+ * for that batch's CRC-16/XMODEM and CRC-32 on their own (from the start value), which the main
+ * thread joins in order (checksums-combine.ts).
+ */
+interface BatchWork {
+  crc16: boolean;
+  crc32: boolean;
+}
 type ToWorker =
   | { type: 'start'; job: number }
-  | { type: 'data'; job: number; slot: number; length: number }
-  | { type: 'data'; job: number; slot: -1; buf: ArrayBuffer; length: number }
+  | ({ type: 'data'; job: number; seg: number; slot: number; length: number } & BatchWork)
+  | ({ type: 'data'; job: number; seg: number; slot: -1; buf: ArrayBuffer; length: number } & BatchWork)
   | { type: 'end'; job: number }
   | { type: 'drop'; job: number };
 type FromWorker =
-  | { type: 'summed'; job: number; length: number; buf?: ArrayBuffer }
-  | { type: 'result'; job: number; sha256: string; crc32: number }
+  | { type: 'summed'; job: number; seg: number; length: number; crc16: number; crc32: number; buf?: ArrayBuffer }
+  | { type: 'result'; job: number; sha256: string }
   | { type: 'error'; job: number; message: string };
 
-// workerData: { ring: SharedArrayBuffer, busy: SharedArrayBuffer (Int32 per slot), batchBytes }.
-// A slot is busy (1) from the moment the main thread fills it until the worker has summed it; the
-// worker frees it with Atomics.store, so the main thread can reuse it without waiting for a message.
+// workerData: { ring: SharedArrayBuffer, busy: SharedArrayBuffer, batchBytes, slots }. busy holds an
+// Int32 per slot, 1 from the moment the main thread fills the slot until the worker has summed it
+// (the worker frees it with Atomics.store, so the main thread can reuse it without waiting for a
+// message), then a count of own-buffer batches summed. Both tell the main thread how far behind
+// the worker is while it is still busy feeding and has not read the worker's messages.
 const WORKER_SOURCE = `
 'use strict';
 const { parentPort, workerData } = require('node:worker_threads');
 const { createHash } = require('node:crypto');
 const { crc32 } = require('node:zlib');
 const busy = new Int32Array(workerData.busy);
+// CRC-16/XMODEM slice-by-16, the same table and loop as crc16XmodemUpdate in checksums.ts.
+const TABLE = new Uint16Array(256 * 16);
+for (let b = 0; b < 256; b++) {
+  let c = b << 8;
+  for (let k = 0; k < 8; k++) c = c & 0x8000 ? ((c << 1) ^ 0x1021) & 0xffff : (c << 1) & 0xffff;
+  TABLE[b] = c;
+}
+for (let s = 1; s < 16; s++) {
+  for (let b = 0; b < 256; b++) {
+    const prev = TABLE[(s - 1) * 256 + b];
+    TABLE[s * 256 + b] = ((prev << 8) & 0xffff) ^ TABLE[prev >>> 8];
+  }
+}
+function crc16Bytewise(data, from, to, crc) {
+  for (let i = from; i < to; i++) crc = ((crc << 8) & 0xffff) ^ TABLE[((crc >>> 8) ^ data[i]) & 0xff];
+  return crc;
+}
+function crc16Xmodem(data) {
+  const n = data.length;
+  const lead = Math.min(n, (4 - (data.byteOffset & 3)) & 3);
+  let crc = crc16Bytewise(data, 0, lead, 0);
+  const groups = (n - lead) >>> 4;
+  if (groups > 0) {
+    const words = new Uint32Array(data.buffer, data.byteOffset + lead, groups * 4);
+    for (let j = 0; j < words.length; j += 4) {
+      const w0 = words[j], w1 = words[j + 1], w2 = words[j + 2], w3 = words[j + 3];
+      crc =
+        TABLE[3840 + ((w0 & 0xff) ^ (crc >>> 8))] ^ TABLE[3584 + (((w0 >>> 8) & 0xff) ^ (crc & 0xff))] ^
+        TABLE[3328 + ((w0 >>> 16) & 0xff)] ^ TABLE[3072 + (w0 >>> 24)] ^
+        TABLE[2816 + (w1 & 0xff)] ^ TABLE[2560 + ((w1 >>> 8) & 0xff)] ^ TABLE[2304 + ((w1 >>> 16) & 0xff)] ^ TABLE[2048 + (w1 >>> 24)] ^
+        TABLE[1792 + (w2 & 0xff)] ^ TABLE[1536 + ((w2 >>> 8) & 0xff)] ^ TABLE[1280 + ((w2 >>> 16) & 0xff)] ^ TABLE[1024 + (w2 >>> 24)] ^
+        TABLE[768 + (w3 & 0xff)] ^ TABLE[512 + ((w3 >>> 8) & 0xff)] ^ TABLE[256 + ((w3 >>> 16) & 0xff)] ^ TABLE[w3 >>> 24];
+    }
+  }
+  return crc16Bytewise(data, lead + groups * 16, n, crc);
+}
 const jobs = new Map();
 parentPort.on('message', (m) => {
   if (m.type === 'start') {
-    jobs.set(m.job, { sha: createHash('sha256'), crc32: 0 });
+    jobs.set(m.job, createHash('sha256'));
   } else if (m.type === 'data') {
     const j = jobs.get(m.job);
     const view = m.slot >= 0
       ? new Uint8Array(workerData.ring, m.slot * workerData.batchBytes, m.length)
       : new Uint8Array(m.buf, 0, m.length);
+    let c16 = -1;
+    let c32 = -1;
     if (j) {
-      j.sha.update(view);
-      j.crc32 = crc32(view, j.crc32);
+      j.update(view);
+      if (m.crc16) c16 = crc16Xmodem(view);
+      if (m.crc32) c32 = crc32(view, 0) >>> 0;
     }
+    const reply = { type: 'summed', job: m.job, seg: m.seg, length: m.length, crc16: c16, crc32: c32 };
     if (m.slot >= 0) {
       Atomics.store(busy, m.slot, 0);
-      parentPort.postMessage({ type: 'summed', job: m.job, length: m.length });
+      parentPort.postMessage(reply);
     } else {
-      parentPort.postMessage({ type: 'summed', job: m.job, length: m.length, buf: m.buf }, [m.buf]);
+      Atomics.add(busy, workerData.slots, 1);
+      reply.buf = m.buf;
+      parentPort.postMessage(reply, [m.buf]);
     }
   } else if (m.type === 'end') {
     const j = jobs.get(m.job);
     jobs.delete(m.job);
-    if (j) parentPort.postMessage({ type: 'result', job: m.job, sha256: j.sha.digest('hex'), crc32: j.crc32 >>> 0 });
+    if (j) parentPort.postMessage({ type: 'result', job: m.job, sha256: j.digest('hex') });
     else parentPort.postMessage({ type: 'error', job: m.job, message: 'unknown image ' + m.job });
   } else if (m.type === 'drop') {
     jobs.delete(m.job);
@@ -126,8 +180,9 @@ parentPort.on('message', (m) => {
 
 /** What the pool tells one image's checksummer about the worker. */
 interface JobSink {
-  summed(bytes: number): void;
-  result(sha256: string, crc32: number): void;
+  /** Batch `seg` (`bytes` long) is summed; its CRC-16 and CRC-32 where asked for, else -1. */
+  summed(seg: number, bytes: number, crc16: number, crc32: number): void;
+  result(sha256: string): void;
   fail(error: Error): void;
 }
 
@@ -148,6 +203,7 @@ export class ChecksumWorkerPool {
   private nextJob = 1;
   private idleTimer: NodeJS.Timeout | null = null;
   private spares: ArrayBuffer[] = [];
+  private overflowSent = 0;
   private started = 0;
 
   constructor(options: ChecksumWorkerPoolOptions = {}) {
@@ -216,15 +272,29 @@ export class ChecksumWorkerPool {
   }
 
   /** Sends the first `length` bytes of a batch; the batch must not be touched afterwards. */
-  send(job: number, batch: Batch, length: number): void {
+  send(job: number, seg: number, batch: Batch, length: number, work: BatchWork): void {
+    const { crc16, crc32 } = work;
     if (batch.slot >= 0) {
-      // A slot from a ring that a crash replaced is simply dropped with the old ring.
       if (batch.bytes.buffer !== this.ring) throw new Error('checksum worker was restarted during the image');
-      this.post({ type: 'data', job, slot: batch.slot, length });
+      this.post({ type: 'data', job, seg, crc16, crc32, slot: batch.slot, length });
     } else {
       const buf = batch.bytes.buffer as ArrayBuffer;
-      this.post({ type: 'data', job, slot: -1, buf, length }, [buf]);
+      this.post({ type: 'data', job, seg, crc16, crc32, slot: -1, buf, length }, [buf]);
+      this.overflowSent++;
     }
+  }
+
+  /**
+   * Batches sent to the worker and not yet summed, from every image. Ring slots are counted from the
+   * shared flags, which the worker clears as it goes, so the count is current even while this
+   * thread has not yet read the worker's messages.
+   */
+  queuedBatches(): number {
+    const busy = this.busy;
+    if (!busy) return 0;
+    let n = this.overflowSent - Atomics.load(busy, this.slotCount);
+    for (let slot = 0; slot < this.slotCount; slot++) n += Atomics.load(busy, slot);
+    return n;
   }
 
   /** Returns a batch that will not be sent (a slot is freed). */
@@ -253,12 +323,13 @@ export class ChecksumWorkerPool {
     if (this.worker) return this.worker;
     // A fresh ring per worker: a worker that crashed may have left slots marked busy.
     const ring = new SharedArrayBuffer(this.slotCount * this.batchBytes);
-    const busy = new SharedArrayBuffer(this.slotCount * 4);
+    // One Int32 flag per slot, then a count of own-buffer batches summed.
+    const busy = new SharedArrayBuffer((this.slotCount + 1) * 4);
     // execArgv: [] so that the worker does not load tsx (or a test runner's flags); it needs neither.
     const w = new Worker(this.source, {
       eval: true,
       execArgv: [],
-      workerData: { ring, busy, batchBytes: this.batchBytes },
+      workerData: { ring, busy, batchBytes: this.batchBytes, slots: this.slotCount },
     });
     this.started++;
     this.worker = w;
@@ -274,13 +345,13 @@ export class ChecksumWorkerPool {
   private onMessage(m: FromWorker): void {
     if (m.type === 'summed') {
       if (m.buf) this.giveBack(m.buf);
-      this.jobs.get(m.job)?.summed(m.length);
+      this.jobs.get(m.job)?.summed(m.seg, m.length, m.crc16, m.crc32);
       return;
     }
     const sink = this.jobs.get(m.job);
     if (!sink) return; // dropped meanwhile
     this.jobs.delete(m.job);
-    if (m.type === 'result') sink.result(m.sha256, m.crc32);
+    if (m.type === 'result') sink.result(m.sha256);
     else sink.fail(new Error(`checksum worker: ${m.message}`));
     this.maybeIdle();
   }
@@ -291,6 +362,7 @@ export class ChecksumWorkerPool {
     this.worker = null;
     this.ring = null;
     this.busy = null;
+    this.overflowSent = 0;
     if (this.idleTimer) {
       clearTimeout(this.idleTimer);
       this.idleTimer = null;
@@ -328,6 +400,38 @@ export interface StreamingOptions {
    * than the sums.
    */
   workerFromBytes?: number;
+  /**
+   * Which thread computes each batch's CRCs (the worker always does SHA-256). 'balanced' (default)
+   * decides batch by batch from how many batches wait for the worker (see SHARE_BY_QUEUE); the
+   * fixed ones are for the bench and the tests: 'crc16-here' (CRC-16 on this thread, CRC-32 in the
+   * worker), 'crcs-here' (both CRCs on this thread), 'crcs-there' (both in the worker).
+   */
+  share?: 'balanced' | 'crc16-here' | 'crcs-here' | 'crcs-there';
+}
+
+/**
+ * 'balanced': with at most `workerIdle` batches waiting the worker is about to run dry and takes
+ * both CRCs as well as SHA-256; with `workerBehind` or more it falls behind and keeps only
+ * SHA-256; in between it takes CRC-32 (the usual split: per MB, SHA-256 + CRC-32 in the worker cost
+ * about what copy + CRC-16 cost here). Each thread thus takes more work while the other is busy,
+ * without knowing the machine's speeds, and when the worker gets little CPU (a busy machine) the
+ * CRCs stay here rather than pile up behind it.
+ */
+const SHARE_BY_QUEUE = { workerIdle: 1, workerBehind: 4 };
+
+function workFor(share: NonNullable<StreamingOptions['share']>, pool: ChecksumWorkerPool): BatchWork {
+  switch (share) {
+    case 'crc16-here':
+      return { crc16: false, crc32: true };
+    case 'crcs-here':
+      return { crc16: false, crc32: false };
+    case 'crcs-there':
+      return { crc16: true, crc32: true };
+    case 'balanced': {
+      const waiting = pool.queuedBatches();
+      return { crc16: waiting <= SHARE_BY_QUEUE.workerIdle, crc32: waiting < SHARE_BY_QUEUE.workerBehind };
+    }
+  }
 }
 
 const hex = (value: number, digits: number) => value.toString(16).padStart(digits, '0');
@@ -339,13 +443,17 @@ const hex = (value: number, digits: number) => value.toString(16).padStart(digit
 export function createStreamingImageChecksums(options: StreamingOptions = {}): StreamingImageChecksummer {
   const pool = options.pool ?? defaultChecksumWorkerPool();
   const workerFromBytes = options.workerFromBytes ?? 1024 * 1024;
+  const share = options.share ?? 'balanced';
   const batchBytes = pool.batchBytes;
 
   type State = 'feeding' | 'digesting' | 'done' | 'aborted' | 'failed';
   let state: State = 'feeding';
-  let crc16 = 0;
   let batch: Batch | null = null;
   let used = 0;
+  // Every batch of the image in order: its length and its CRCs on their own (-1 while the worker has them).
+  const segLength: number[] = [];
+  const segCrc16: number[] = [];
+  const segCrc32: number[] = [];
   // Full batches kept on this thread until the image reaches workerFromBytes.
   const held: Batch[] = [];
   let heldBytes = 0;
@@ -366,53 +474,72 @@ export function createStreamingImageChecksums(options: StreamingOptions = {}): S
     }
   };
 
+  const fail = (error: Error) => {
+    state = 'failed';
+    failure = error;
+    settle?.reject(error);
+    settle = null;
+    wakeDrainers();
+  };
+
+  /** The image's CRCs, joined from its batches' in order. */
+  const crcsOfImage = (): { crc32: string; crc16Xmodem: string } => {
+    let crc16 = 0;
+    let crc32 = 0;
+    for (let i = 0; i < segLength.length; i++) {
+      if (segCrc16[i] < 0 || segCrc32[i] < 0) throw new Error(`checksum worker did not return the CRCs of batch ${i}`);
+      crc16 = crc16XmodemCombine(crc16, segCrc16[i], segLength[i]);
+      crc32 = crc32IsoHdlcCombine(crc32, segCrc32[i], segLength[i]);
+    }
+    return { crc32: hex(crc32, 8), crc16Xmodem: hex(crc16, 4) };
+  };
+
   const sink: JobSink = {
-    summed(bytes) {
+    summed(seg, bytes, crc16, crc32) {
       summedBytes += bytes;
+      if (crc16 >= 0) segCrc16[seg] = crc16;
+      if (crc32 >= 0) segCrc32[seg] = crc32;
       wakeDrainers();
     },
-    result(sha256, crc32) {
-      state = 'done';
-      settle?.resolve({ sha256, crc32: hex(crc32, 8), crc16Xmodem: hex(crc16, 4) });
-      settle = null;
-      wakeDrainers();
+    result(sha256) {
+      try {
+        const sums = { sha256, ...crcsOfImage() };
+        state = 'done';
+        settle?.resolve(sums);
+        settle = null;
+        wakeDrainers();
+      } catch (error) {
+        fail(error as Error);
+      }
     },
     fail(error) {
       if (state === 'aborted' || state === 'done') return;
-      state = 'failed';
-      failure = error;
-      settle?.reject(error);
-      settle = null;
-      wakeDrainers();
+      fail(error);
     },
   };
 
-  const ship = (b: Batch, length: number) => {
+  const ship = (seg: number, b: Batch, length: number, work: BatchWork) => {
     sentBytes += length;
-    pool.send(job, b, length);
+    pool.send(job, seg, b, length, work);
   };
 
-  const fullBatch = () => {
-    const b = batch!;
-    batch = null;
-    used = 0;
-    if (job) return ship(b, batchBytes);
+  /** Records a batch as the image's next segment and sends it on (or holds it, before the hand-off). */
+  const closeBatch = (b: Batch, length: number) => {
+    const seg = segLength.length;
+    segLength.push(length);
+    const work = job ? workFor(share, pool) : { crc16: false, crc32: false };
+    const bytes = b.bytes.subarray(0, length);
+    segCrc16.push(work.crc16 ? -1 : crc16XmodemUpdate(bytes));
+    segCrc32.push(work.crc32 ? -1 : crc32Update(bytes));
+    if (job) return ship(seg, b, length, work);
     held.push(b);
-    heldBytes += batchBytes;
-    if (heldBytes < workerFromBytes) return;
-    try {
-      handOff();
-    } catch (error) {
-      // The worker could not be started: this image cannot continue.
-      state = 'failed';
-      failure = error as Error;
-      throw error;
-    }
+    heldBytes += length;
   };
 
   const handOff = () => {
     job = pool.open(sink);
-    for (const h of held) ship(h, batchBytes);
+    const first = segLength.length - held.length;
+    held.forEach((h, k) => ship(first + k, h, segLength[first + k], { crc16: false, crc32: false }));
     held.length = 0;
     heldBytes = 0;
   };
@@ -421,18 +548,6 @@ export function createStreamingImageChecksums(options: StreamingOptions = {}): S
     if (state === 'failed') return failure!;
     if (state === 'aborted') return new Error('The checksums were aborted.');
     return new Error('The checksums were already digested.');
-  };
-
-  const sumHere = (): ImageChecksums => {
-    const sha = createHash('sha256');
-    let crc32 = 0;
-    const parts = held.map((h) => h.bytes);
-    if (batch) parts.push(batch.bytes.subarray(0, used));
-    for (const part of parts) {
-      sha.update(part);
-      crc32 = crc32Update(part, crc32);
-    }
-    return { sha256: sha.digest('hex'), crc32: hex(crc32, 8), crc16Xmodem: hex(crc16, 4) };
   };
 
   const releaseAll = () => {
@@ -450,7 +565,6 @@ export function createStreamingImageChecksums(options: StreamingOptions = {}): S
 
     update(chunk) {
       if (state !== 'feeding') throw refusal();
-      crc16 = crc16XmodemUpdate(chunk, crc16);
       let at = 0;
       while (at < chunk.length) {
         batch ??= job ? pool.takeBatch() : { slot: -1, bytes: new Uint8Array(pool.ownBuffer()) };
@@ -458,7 +572,20 @@ export function createStreamingImageChecksums(options: StreamingOptions = {}): S
         batch.bytes.set(at === 0 && n === chunk.length ? chunk : chunk.subarray(at, at + n), used);
         used += n;
         at += n;
-        if (used === batchBytes) fullBatch();
+        if (used < batchBytes) continue;
+        const full = batch;
+        batch = null;
+        used = 0;
+        closeBatch(full, batchBytes);
+        if (!job && heldBytes >= workerFromBytes) {
+          try {
+            handOff();
+          } catch (error) {
+            // The worker could not be started: this image cannot continue.
+            fail(error as Error);
+            throw error;
+          }
+        }
       }
     },
 
@@ -466,19 +593,21 @@ export function createStreamingImageChecksums(options: StreamingOptions = {}): S
       if (state !== 'feeding') return Promise.reject(refusal());
       state = 'digesting';
       wakeDrainers();
-      if (!job && heldBytes + used >= workerFromBytes) {
-        try {
-          handOff();
-        } catch (error) {
-          state = 'failed';
-          failure = error as Error;
-          releaseAll();
-          return Promise.reject(failure);
-        }
+      try {
+        if (!job && heldBytes + used >= workerFromBytes) handOff();
+      } catch (error) {
+        fail(error as Error);
+        releaseAll();
+        return Promise.reject(failure);
       }
       if (!job) {
         // A small image: the worker is never involved.
-        const sums = sumHere();
+        if (batch && used > 0) closeBatch(batch, used);
+        else if (batch) pool.release(batch);
+        batch = null;
+        const sha = createHash('sha256');
+        held.forEach((h, k) => sha.update(h.bytes.subarray(0, segLength[k])));
+        const sums = { sha256: sha.digest('hex'), ...crcsOfImage() };
         releaseAll();
         state = 'done';
         return Promise.resolve(sums);
@@ -486,9 +615,10 @@ export function createStreamingImageChecksums(options: StreamingOptions = {}): S
       return new Promise<ImageChecksums>((resolve, reject) => {
         settle = { resolve, reject };
         try {
-          if (batch && used > 0) ship(batch, used);
-          else if (batch) pool.release(batch);
+          const last = batch;
           batch = null;
+          if (last && used > 0) closeBatch(last, used);
+          else if (last) pool.release(last);
           pool.end(job);
         } catch (error) {
           sink.fail(error as Error);

@@ -14,6 +14,7 @@ import {
   createStreamingImageChecksums,
   type StreamingImageChecksummer,
 } from './checksums-streaming';
+import { crc16XmodemCombine, crc32IsoHdlcCombine } from './checksums-combine';
 
 const ascii = (s: string) => Buffer.from(s, 'latin1');
 
@@ -140,6 +141,30 @@ describe('the checksummer', () => {
   });
 });
 
+describe('joining the CRCs of consecutive pieces (checksums-combine.ts)', () => {
+  it('"123456789" split anywhere joins to the catalogue check values 0x31C3 and 0xCBF43926', () => {
+    const nine = ascii('123456789');
+    for (let cut = 0; cut <= 9; cut++) {
+      const a = nine.subarray(0, cut);
+      const b = nine.subarray(cut);
+      assert.equal(crc16XmodemCombine(crc16XmodemUpdate(a), crc16XmodemUpdate(b), b.length), 0x31c3, `cut ${cut}`);
+      assert.equal(crc32IsoHdlcCombine(crc32Update(a), crc32Update(b), b.length), 0xcbf43926, `cut ${cut}`);
+    }
+  });
+  it('random pieces join to the CRC of the whole (checked against the independent packages)', () => {
+    fc.assert(
+      fc.property(fc.uint8Array({ maxLength: 3000, size: 'max' }), fc.uint8Array({ maxLength: 70_000, size: 'max' }), (a, b) => {
+        const whole = new Uint8Array(a.length + b.length);
+        whole.set(a);
+        whole.set(b, a.length);
+        assert.equal(crc16XmodemCombine(crc16XmodemUpdate(a), crc16XmodemUpdate(b), b.length), ref.crc16Easy(whole));
+        assert.equal(crc32IsoHdlcCombine(crc32Update(a), crc32Update(b), b.length), ref.crc32Sheet(whole));
+      }),
+      { numRuns: 200, endOnFailure: true },
+    );
+  });
+});
+
 // --- the two-thread streaming checksummer (checksums-streaming.ts) -----------------------------
 // Its results must equal the one-thread checksummer's and the published check values above. A small
 // batch (1000 bytes, not a multiple of 4) and a ring of 3 slots make every path run on small
@@ -161,9 +186,11 @@ describe('streaming checksums on two threads', () => {
   };
 
   it('check values through the worker: CRC RevEng "123456789", FIPS 180-4 "abc" and the 448-bit message', async () => {
-    const nine = await feed(createStreamingImageChecksums(viaWorker), ascii('123456789'), [2, 3]).digest();
-    assert.equal(nine.crc16Xmodem, '31c3');
-    assert.equal(nine.crc32, 'cbf43926');
+    for (const share of ['crcs-there', 'crc16-here', 'crcs-here', 'balanced'] as const) {
+      const nine = await feed(createStreamingImageChecksums({ ...viaWorker, share }), ascii('123456789'), [2, 3]).digest();
+      assert.equal(nine.crc16Xmodem, '31c3', share);
+      assert.equal(nine.crc32, 'cbf43926', share);
+    }
     const abc = createStreamingImageChecksums(viaWorker);
     abc.update(ascii('abc'));
     assert.equal((await abc.digest()).sha256, 'ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad');
@@ -197,18 +224,20 @@ describe('streaming checksums on two threads', () => {
   it('random images and chunkings give exactly the one-thread results', async () => {
     await fc.assert(
       fc.asyncProperty(
-        fc.uint8Array({ minLength: 0, maxLength: 12_000 }),
+        // size 'max': fast-check's default 'small' size would keep nearly every image under one batch.
+        fc.uint8Array({ minLength: 0, maxLength: 12_000, size: 'max' }),
         fc.array(fc.integer({ min: 1, max: 2500 }), { minLength: 1, maxLength: 12 }),
         fc.constantFrom(0, 2000, Infinity),
+        fc.constantFrom('balanced', 'crc16-here', 'crcs-here', 'crcs-there'),
         fc.nat(7),
-        async (bytes, sizes, workerFromBytes, skip) => {
+        async (bytes, sizes, workerFromBytes, share, skip) => {
           const view = bytes.subarray(Math.min(skip, bytes.length)); // unaligned views too
-          const got = await feed(createStreamingImageChecksums({ pool, workerFromBytes }), view, sizes).digest();
+          const got = await feed(createStreamingImageChecksums({ pool, workerFromBytes, share }), view, sizes).digest();
           assert.deepEqual(got, imageChecksums(view));
           assert.equal(got.crc16Xmodem, ref.crc16Easy(view).toString(16).padStart(4, '0'));
         },
       ),
-      { numRuns: 60 },
+      { numRuns: 80, endOnFailure: true }, // no shrinking: each run talks to a worker
     );
   });
 
