@@ -1,12 +1,14 @@
 // The three firmware-image checksums of checksums.ts, spread over two threads so that an upload can
 // be summed at more than half the speed of SHA-256 alone (the aim in bench/checksums.ts).
 //
-// On one thread the per-byte costs add up (measured here: SHA-256 ~0.6 ms/MB, CRC-32 ~0.25,
-// CRC-16/XMODEM in JS ~0.6-0.75), so "all three" can never reach half of SHA-256 alone. Here the
-// main thread computes CRC-16/XMODEM (the JS table code of checksums.ts) and copies each chunk into
-// a batch; a worker thread computes SHA-256 and CRC-32 (both native: node:crypto, node:zlib) from
-// the batches. The split follows those costs: the main thread also pays for the copy (~0.1 ms/MB)
-// and the messages, so CRC-32 goes to the worker (about 0.85 ms/MB on each side).
+// On one thread the per-byte costs add up (measured here: SHA-256 ~0.6 ms/MB, CRC-32 ~0.25-0.35,
+// CRC-16/XMODEM in JS ~0.75-1.05), so "all three" can never reach half of SHA-256 alone. Here the
+// main thread copies each chunk into a batch (256 KiB); a worker thread computes SHA-256 (node:crypto)
+// over the batches, and each batch's CRC-32 and CRC-16 are computed on their own, on whichever
+// thread has room for them (see SHARE_BY_QUEUE), then joined in order on the main thread
+// (checksums-combine.ts: CRCs are linear, as zlib's crc32_combine uses). A fixed split (CRC-16 on
+// main, SHA-256 + CRC-32 in the worker) was measured first: the worker fell behind on some runs and
+// the main thread on others, because the JS CRC-16's speed varies from process to process here.
 //
 // Getting the bytes across: batches (256 KiB) are written into slots of a SharedArrayBuffer ring
 // that the worker frees with Atomics.store once summed, so the main thread reuses them without
@@ -27,6 +29,8 @@
 //
 // The worker body is plain JavaScript (eval: true) that needs only node:crypto and node:zlib, so it
 // runs the same under tsx, under `node --test` and in a compiled build, and it does not load tsx.
+// The price is a second copy of the CRC-16 slice-by-16 loop in it; the tests compare every split
+// (share: 'crcs-there' puts all CRCs in the worker) with checksums.ts and independent packages.
 
 import { Worker } from 'node:worker_threads';
 import { createHash } from 'node:crypto';
