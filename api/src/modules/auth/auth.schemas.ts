@@ -2,6 +2,7 @@
 // so nothing can be mass-assigned. Length limits on passwords are generous here; the policy in
 // passwords.ts decides (and counts code points, not UTF-16 units).
 import { z } from 'zod';
+import { SINGLE_LINE, SINGLE_LINE_MESSAGE } from '../../schemas';
 
 export const email = z
   .string()
@@ -13,7 +14,12 @@ export const email = z
 /** Any password-shaped string; the policy check comes later, with the person's context. */
 export const passwordInput = z.string().min(1, 'Enter a password.').max(1024, 'Use at most 128 characters.');
 
-export const displayName = z.string().trim().min(1, 'Enter a name.').max(100, 'Use at most 100 characters.');
+export const displayName = z
+  .string()
+  .trim()
+  .min(1, 'Enter a name.')
+  .max(100, 'Use at most 100 characters.')
+  .regex(SINGLE_LINE, SINGLE_LINE_MESSAGE);
 
 export const callSign = z
   .string()

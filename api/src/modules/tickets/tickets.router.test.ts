@@ -129,6 +129,16 @@ describe('POST /api/tickets (intake)', () => {
     assert.deepEqual(await tableCounts(t.sequelize), before);
   });
 
+  it('refuses line breaks and control characters in single-line fields (they reach e-mail subjects), storing nothing', async () => {
+    const before = await tableCounts(t.sequelize);
+    const res = await member
+      .post('/api/tickets', intake({ makeModel: 'Heron 100\r\nBcc: someone@elsewhere.example', serialNumber: 'A\u0000B', units: ['main\nbody'] }))
+      .expect(400);
+    assert.deepEqual(Object.keys(res.body.error.fields).sort(), ['makeModel', 'serialNumber', 'units.0']);
+    assert.match(res.body.error.fields.makeModel, /one line/);
+    assert.deepEqual(await tableCounts(t.sequelize), before);
+  });
+
   it('lets a technician hand in for an owner without an account', async () => {
     const res = await tech
       .post('/api/tickets', intake({ owner: { name: 'Edmund Rushby', email: 'e.rushby@fenmail.example', phone: '01632 960417', callSign: 'q4erb' } }))

@@ -3,19 +3,27 @@
 import { z } from 'zod';
 import { STATES } from '../../domain/workflow';
 import { EQUIPMENT_KINDS } from '../../contracts/tickets';
+import { SINGLE_LINE, SINGLE_LINE_MESSAGE } from '../../schemas';
 
-const optionalText = (max: number, message: string) =>
+
+const optionalText = (max: number, message: string, singleLine = true) =>
   z
     .string()
     .trim()
     .max(max, message)
+    .refine((v) => !singleLine || SINGLE_LINE.test(v), SINGLE_LINE_MESSAGE)
     .optional()
     .transform((v) => (v ? v : undefined));
 
-const listItem = z.string().trim().min(1, 'Leave out empty entries.').max(60, 'Keep each entry to 60 characters.');
+const listItem = z
+  .string()
+  .trim()
+  .min(1, 'Leave out empty entries.')
+  .max(60, 'Keep each entry to 60 characters.')
+  .regex(SINGLE_LINE, SINGLE_LINE_MESSAGE);
 
 export const ownerSchema = z.strictObject({
-  name: z.string().trim().min(1, 'Give the owner’s name.').max(100, 'Keep the name to 100 characters.'),
+  name: z.string().trim().min(1, 'Give the owner’s name.').max(100, 'Keep the name to 100 characters.').regex(SINGLE_LINE, SINGLE_LINE_MESSAGE),
   email: z.email('Give an e-mail address like name@example.org.').max(254),
   phone: optionalText(40, 'Keep the phone number to 40 characters.'),
   callSign: z
@@ -29,7 +37,12 @@ export const ownerSchema = z.strictObject({
 
 export const intakeSchema = z.strictObject({
   equipmentKind: z.enum(EQUIPMENT_KINDS, 'Choose what kind of equipment it is.'),
-  makeModel: z.string().trim().min(1, 'Give the make and model.').max(120, 'Keep make and model to 120 characters.'),
+  makeModel: z
+    .string()
+    .trim()
+    .min(1, 'Give the make and model.')
+    .max(120, 'Keep make and model to 120 characters.')
+    .regex(SINGLE_LINE, SINGLE_LINE_MESSAGE),
   serialNumber: optionalText(60, 'Keep the serial number to 60 characters.'),
   units: z.array(listItem).max(8, 'List at most 8 units.'),
   faultReported: z
@@ -48,7 +61,7 @@ export type IntakeInput = z.infer<typeof intakeSchema>;
 export const moveSchema = z.strictObject({
   to: z.enum(STATES, 'Choose a lane to move the ticket to.'),
   version: z.number('Send the ticket version you saw.').int().min(0),
-  note: optionalText(2000, 'Keep the note to 2000 characters.'),
+  note: optionalText(2000, 'Keep the note to 2000 characters.', false),
 });
 export type MoveInput = z.infer<typeof moveSchema>;
 
