@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { AbstractControl, NonNullableFormBuilder, ReactiveFormsModule, ValidationErrors, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
@@ -7,8 +7,8 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { Observable } from 'rxjs';
 import { ROLES, ROLE_LABELS, Role } from '../../../core/auth/auth.models';
-import { readApiError } from '../../../core/http/api-error';
 import { controlMessage, placeServerError } from '../../../shared/form-errors';
+import { FormSubmitter } from '../../../shared/form-submit';
 import { PASSWORD_HINT, passwordValidators } from '../../auth/password-rules';
 import { AccountApi } from '../account-api';
 import { UserRow } from '../account.models';
@@ -45,8 +45,6 @@ export class AccountDialog {
   protected readonly roleLabels = ROLE_LABELS;
   protected readonly message = controlMessage;
   protected readonly passwordHint = PASSWORD_HINT;
-  protected readonly busy = signal(false);
-  protected readonly formError = signal('');
 
   protected readonly form = this.fb.group({
     email: [this.account?.email ?? '', [Validators.required, Validators.email, Validators.maxLength(254)]],
@@ -64,6 +62,19 @@ export class AccountDialog {
     password: ['', passwordValidators],
   });
 
+  private readonly submitter = new FormSubmitter(this.form, {
+    errorMessage: (apiError) => {
+      if (apiError.code === 'email_taken') {
+        this.form.controls.email.setErrors({ server: apiError.message });
+        this.form.controls.email.markAsTouched();
+        return '';
+      }
+      return placeServerError(this.form, apiError);
+    },
+  });
+  protected readonly busy = this.submitter.busy;
+  protected readonly formError = this.submitter.formError;
+
   constructor() {
     if (this.account) {
       // E-mail and password are not changed here; the person changes their own password.
@@ -73,15 +84,18 @@ export class AccountDialog {
   }
 
   protected save(): void {
-    this.formError.set('');
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
+    this.submitter.submit(
+      () => this.request(),
+      (row) => this.ref.close(row),
+    );
+  }
+
+  /** Update the account being edited, or create a new one, from the form's values. */
+  private request(): Observable<UserRow> {
     const v = this.form.getRawValue();
     const roles = ROLES.filter((r) => v.roles[r]);
     const callSign = v.callSign.trim().toUpperCase();
-    const request: Observable<UserRow> = this.account
+    return this.account
       ? this.api.update(this.account.id, { displayName: v.displayName.trim(), callSign: callSign || null, roles }, true)
       : this.api.create({
           email: v.email.trim(),
@@ -90,22 +104,5 @@ export class AccountDialog {
           password: v.password,
           ...(callSign ? { callSign } : {}),
         });
-    this.busy.set(true);
-    request.subscribe({
-      next: (row) => {
-        this.busy.set(false);
-        this.ref.close(row);
-      },
-      error: (err: unknown) => {
-        this.busy.set(false);
-        const apiError = readApiError(err);
-        if (apiError.code === 'email_taken') {
-          this.form.controls.email.setErrors({ server: apiError.message });
-          this.form.controls.email.markAsTouched();
-          return;
-        }
-        this.formError.set(placeServerError(this.form, apiError));
-      },
-    });
   }
 }

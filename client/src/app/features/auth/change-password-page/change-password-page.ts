@@ -1,12 +1,12 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { AuthApi } from '../../../core/auth/auth-api';
-import { readApiError } from '../../../core/http/api-error';
 import { Notifier } from '../../../core/notifier';
-import { controlMessage, placeServerError } from '../../../shared/form-errors';
+import { controlMessage } from '../../../shared/form-errors';
+import { FormSubmitter } from '../../../shared/form-submit';
 import { PASSWORD_HINT, passwordValidators } from '../password-rules';
 
 @Component({
@@ -22,29 +22,19 @@ export class ChangePasswordPage {
     currentPassword: ['', [Validators.required]],
     newPassword: ['', passwordValidators],
   });
-  protected readonly busy = signal(false);
-  protected readonly formError = signal('');
+  private readonly submitter = new FormSubmitter(this.form);
+  protected readonly busy = this.submitter.busy;
+  protected readonly formError = this.submitter.formError;
   protected readonly message = controlMessage;
   protected readonly passwordHint = PASSWORD_HINT;
 
   protected submit(): void {
-    this.formError.set('');
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.api.changePassword(this.form.getRawValue()).subscribe({
-      next: () => {
-        this.busy.set(false);
+    this.submitter.submit(
+      () => this.api.changePassword(this.form.getRawValue()),
+      () => {
         this.form.reset();
         this.notifier.info('Password changed. You stay signed in here; other devices are signed out.');
       },
-      error: (err: unknown) => {
-        const apiError = readApiError(err);
-        this.formError.set(placeServerError(this.form, apiError));
-        this.busy.set(false);
-      },
-    });
+    );
   }
 }

@@ -5,8 +5,8 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { AuthApi } from '../../../core/auth/auth-api';
-import { readApiError } from '../../../core/http/api-error';
-import { controlMessage, placeServerError } from '../../../shared/form-errors';
+import { controlMessage } from '../../../shared/form-errors';
+import { FormSubmitter } from '../../../shared/form-submit';
 
 @Component({
   selector: 'rw-forgot-password-page',
@@ -19,28 +19,16 @@ export class ForgotPasswordPage {
   protected readonly form = inject(NonNullableFormBuilder).group({
     email: ['', [Validators.required, Validators.email]],
   });
-  protected readonly busy = signal(false);
+  private readonly submitter = new FormSubmitter(this.form);
+  protected readonly busy = this.submitter.busy;
   protected readonly sent = signal(false);
-  protected readonly formError = signal('');
+  protected readonly formError = this.submitter.formError;
   protected readonly message = controlMessage;
 
   protected submit(): void {
-    this.formError.set('');
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.api.requestPasswordReset(this.form.controls.email.value.trim()).subscribe({
-      next: () => {
-        this.sent.set(true);
-        this.busy.set(false);
-      },
-      error: (err: unknown) => {
-        const apiError = readApiError(err);
-        this.formError.set(placeServerError(this.form, apiError));
-        this.busy.set(false);
-      },
-    });
+    this.submitter.submit(
+      () => this.api.requestPasswordReset(this.form.controls.email.value.trim()),
+      () => this.sent.set(true),
+    );
   }
 }

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -6,8 +6,8 @@ import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { AuthApi } from '../../../core/auth/auth-api';
 import { SessionStore } from '../../../core/auth/session-store';
-import { readApiError } from '../../../core/http/api-error';
-import { controlMessage, placeServerError } from '../../../shared/form-errors';
+import { controlMessage } from '../../../shared/form-errors';
+import { FormSubmitter } from '../../../shared/form-submit';
 import { PASSWORD_HINT, passwordValidators } from '../password-rules';
 
 @Component({
@@ -27,32 +27,27 @@ export class RegisterPage {
     callSign: ['', [Validators.maxLength(12)]],
     password: ['', passwordValidators],
   });
-  protected readonly busy = signal(false);
-  protected readonly formError = signal('');
+  private readonly submitter = new FormSubmitter(this.form);
+  protected readonly busy = this.submitter.busy;
+  protected readonly formError = this.submitter.formError;
   protected readonly message = controlMessage;
   protected readonly passwordHint = PASSWORD_HINT;
 
   protected submit(): void {
-    this.formError.set('');
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    const { email, displayName, callSign, password } = this.form.getRawValue();
-    this.busy.set(true);
-    this.api
-      .register({ email: email.trim(), displayName: displayName.trim(), password, ...(callSign.trim() ? { callSign: callSign.trim().toUpperCase() } : {}) })
-      .subscribe({
-        next: ({ user }) => {
-          this.session.set(user);
-          this.busy.set(false);
-          void this.router.navigateByUrl('/');
-        },
-        error: (err: unknown) => {
-          const apiError = readApiError(err);
-          this.formError.set(placeServerError(this.form, apiError));
-          this.busy.set(false);
-        },
-      });
+    this.submitter.submit(
+      () => {
+        const { email, displayName, callSign, password } = this.form.getRawValue();
+        return this.api.register({
+          email: email.trim(),
+          displayName: displayName.trim(),
+          password,
+          ...(callSign.trim() ? { callSign: callSign.trim().toUpperCase() } : {}),
+        });
+      },
+      ({ user }) => {
+        this.session.set(user);
+        void this.router.navigateByUrl('/');
+      },
+    );
   }
 }

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, input } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -6,8 +6,8 @@ import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { AuthApi } from '../../../core/auth/auth-api';
 import { SessionStore } from '../../../core/auth/session-store';
-import { readApiError } from '../../../core/http/api-error';
-import { controlMessage, placeServerError } from '../../../shared/form-errors';
+import { controlMessage } from '../../../shared/form-errors';
+import { FormSubmitter } from '../../../shared/form-submit';
 
 @Component({
   selector: 'rw-sign-in-page',
@@ -27,29 +27,19 @@ export class SignInPage {
     email: ['', [Validators.required, Validators.email]],
     password: ['', [Validators.required]],
   });
-  protected readonly busy = signal(false);
-  protected readonly formError = signal('');
+  private readonly submitter = new FormSubmitter(this.form);
+  protected readonly busy = this.submitter.busy;
+  protected readonly formError = this.submitter.formError;
   protected readonly message = controlMessage;
 
   protected submit(): void {
-    this.formError.set('');
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.api.signIn(this.form.getRawValue()).subscribe({
-      next: ({ user }) => {
+    this.submitter.submit(
+      () => this.api.signIn(this.form.getRawValue()),
+      ({ user }) => {
         this.session.set(user);
-        this.busy.set(false);
         const next = this.next();
         void this.router.navigateByUrl(next && next.startsWith('/') && !next.startsWith('//') ? next : '/');
       },
-      error: (err: unknown) => {
-        const apiError = readApiError(err);
-        this.formError.set(placeServerError(this.form, apiError));
-        this.busy.set(false);
-      },
-    });
+    );
   }
 }

@@ -13,9 +13,9 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
 import { SessionStore } from '../../../core/auth/session-store';
-import { readApiError } from '../../../core/http/api-error';
 import { Caution } from '../../../shared/caution/caution';
 import { controlMessage, placeServerError } from '../../../shared/form-errors';
+import { FormSubmitter } from '../../../shared/form-submit';
 import { EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS, EquipmentKind } from '../../../shared/labels';
 import { TicketApi } from '../ticket-api';
 import { IntakeBody, TicketDetail } from '../ticket.models';
@@ -93,8 +93,12 @@ export class IntakePage {
     return UNIT_SUGGESTIONS.filter((u) => !chosen.includes(u) && u.includes(text));
   });
 
-  protected readonly busy = signal(false);
-  protected readonly formError = signal('');
+  private readonly submitter = new FormSubmitter(this.form, {
+    invalidMessage: FIX_FIELDS,
+    errorMessage: (apiError) => placeServerError(this.form, apiError) || FIX_FIELDS,
+  });
+  protected readonly busy = this.submitter.busy;
+  protected readonly formError = this.submitter.formError;
   protected readonly opened = signal<TicketDetail | null>(null);
 
   constructor() {
@@ -158,23 +162,10 @@ export class IntakePage {
   }
 
   protected submit(): void {
-    this.formError.set('');
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      this.formError.set(FIX_FIELDS);
-      return;
-    }
-    this.busy.set(true);
-    this.api.create(this.body()).subscribe({
-      next: (ticket) => {
-        this.busy.set(false);
-        this.opened.set(ticket);
-      },
-      error: (err: unknown) => {
-        this.busy.set(false);
-        this.formError.set(placeServerError(this.form, readApiError(err)) || FIX_FIELDS);
-      },
-    });
+    this.submitter.submit(
+      () => this.api.create(this.body()),
+      (ticket) => this.opened.set(ticket),
+    );
   }
 
   /** The request body: trimmed text, optional fields left out when empty. */
