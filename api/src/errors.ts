@@ -1,6 +1,7 @@
 // Typed errors thrown by services and handlers; the central error handler in app.ts turns them
 // into the one error shape of the API: { error: { code, message, fields? } }.
 import type { ZodError } from 'zod';
+import './schemas'; // plain-words messages for every schema
 
 export class AppError extends Error {
   constructor(

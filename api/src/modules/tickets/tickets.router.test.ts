@@ -129,6 +129,13 @@ describe('POST /api/tickets (intake)', () => {
     assert.deepEqual(await tableCounts(t.sequelize), before);
   });
 
+  it('says in plain words which fields are missing or of the wrong type', async () => {
+    const res = await member.post('/api/tickets', { equipmentKind: 'transceiver', units: 'display head' }).expect(400);
+    assert.equal(res.body.error.fields.makeModel, 'This is required.');
+    assert.equal(res.body.error.fields.units, 'Send a list here.');
+    assert.doesNotMatch(JSON.stringify(res.body), /Invalid input|received undefined/);
+  });
+
   it('refuses line breaks and control characters in single-line fields (they reach e-mail subjects), storing nothing', async () => {
     const before = await tableCounts(t.sequelize);
     const res = await member
