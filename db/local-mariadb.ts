@@ -4,6 +4,7 @@
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
+import { ensureDebianPackages, findBinary } from './debian-packages';
 
 export interface LocalMariaDbOptions {
   /** Folder holding my.cnf, data/, socket, pid and log. */
@@ -24,33 +25,6 @@ export interface LocalMariaDb {
 
 export const APP_DB_USER = 'rigwright';
 export const APP_DB_PASSWORD = 'rigwright-local';
-
-const SBIN_PATHS = ['/usr/sbin', '/usr/bin', '/sbin', '/bin'];
-
-function findBinary(name: string): string | undefined {
-  const dirs = [...(process.env.PATH ?? '').split(':'), ...SBIN_PATHS];
-  for (const dir of dirs) {
-    const candidate = path.join(dir, name);
-    if (dir && existsSync(candidate)) return candidate;
-  }
-  return undefined;
-}
-
-function installServerPackage(log: (line: string) => void): void {
-  const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
-  const command = 'apt-get update && apt-get install -y mariadb-server';
-  if (!isRoot) {
-    throw new Error(
-      `MariaDB's server (mariadbd) is not installed. Run as root:\n  sudo sh -c '${command}'\nthen run this command again.`,
-    );
-  }
-  log(`MariaDB server not found; installing Debian's mariadb-server (${command}) ...`);
-  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
-  for (const args of [['update', '-q'], ['install', '-y', '-q', 'mariadb-server']]) {
-    const r = spawnSync('apt-get', args, { stdio: 'inherit', env });
-    if (r.status !== 0) throw new Error(`apt-get ${args.join(' ')} failed (exit ${r.status}).`);
-  }
-}
 
 function writeConfig(dir: string, port: number, durable: boolean): string {
   const cnf = path.join(dir, 'my.cnf');
@@ -122,9 +96,8 @@ export async function ensureLocalMariaDb(options: LocalMariaDbOptions = {}): Pro
     return { port, socket, startedHere: false, stop: async () => {} };
   }
 
-  if (!findBinary('mariadbd')) installServerPackage(log);
-  const mariadbd = findBinary('mariadbd');
-  if (!mariadbd) throw new Error('mariadbd is still missing after installing mariadb-server.');
+  ensureDebianPackages([{ pkg: 'mariadb-server', binary: 'mariadbd' }], log);
+  const mariadbd = findBinary('mariadbd') as string;
 
   const cnf = writeConfig(dir, port, options.durable ?? true);
   if (!existsSync(path.join(dir, 'data', 'mysql'))) {

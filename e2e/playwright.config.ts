@@ -14,7 +14,7 @@ export default defineConfig({
   reporter: [['list'], ['json']],
   use: {
     testIdAttribute: 'data-testid',
-    baseURL: process.env.RW_E2E_URL ?? 'http://127.0.0.1:4310',
+    baseURL: process.env.RW_E2E_URL ?? 'http://127.0.0.1:4320',
     viewport: { width: 1440, height: 900 },
     screenshot: 'only-on-failure',
     trace: 'off',

@@ -6,6 +6,7 @@ import { spawn } from 'node:child_process';
 import { readFileSync, readdirSync, existsSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { ensureDatabase, ensureLocalMariaDb } from '../db/local-mariadb';
+import { ensureDebianPackages } from '../db/debian-packages';
 import { ROOT, buildClientIfStale, runTs, startApi, startMaildev, type Service } from './services';
 
 interface SuiteResult {
@@ -18,6 +19,10 @@ interface SuiteResult {
 const only = new Set(process.argv.slice(2)); // e.g. `npm test -- api` runs one suite
 const wants = (suite: string) => only.size === 0 || only.has(suite);
 const DB_PORT = process.env.RW_DB_PORT ?? '3407';
+// Ports of the browser suite's own API and mail catcher; set them to run two checkouts side by side.
+const E2E_PORT = process.env.RW_E2E_PORT ?? '4320';
+const E2E_SMTP_PORT = process.env.RW_E2E_SMTP_PORT ?? '1225';
+const E2E_MAIL_WEB_PORT = process.env.RW_E2E_MAIL_WEB_PORT ?? '1280';
 const started: Service[] = [];
 const results: SuiteResult[] = [];
 
@@ -92,22 +97,22 @@ async function browserTests() {
     NODE_ENV: 'test',
     RW_DB_PORT: DB_PORT,
     RW_DB_NAME: 'rigwright_e2e',
-    RW_PORT: '4310',
-    RW_PUBLIC_URL: 'http://127.0.0.1:4310',
-    RW_SMTP_PORT: '1225',
+    RW_PORT: E2E_PORT,
+    RW_PUBLIC_URL: `http://127.0.0.1:${E2E_PORT}`,
+    RW_SMTP_PORT: E2E_SMTP_PORT,
     RW_OUTBOX_INTERVAL_MS: '300',
     RW_LOG_LEVEL: 'warn',
   };
   runTs('db/migrate.ts', ['up'], env);
   runTs('db/seed.ts', [], env);
-  started.push(await startMaildev(1225, 1280, { quiet: true }));
+  started.push(await startMaildev(Number(E2E_SMTP_PORT), Number(E2E_MAIL_WEB_PORT), { quiet: true }));
   started.push(await startApi(env, { quiet: true }));
   const report = path.join(ROOT, 'test-results', 'e2e-report.json');
   rmSync(report, { force: true });
   const pw = path.join(ROOT, 'node_modules', '@playwright', 'test', 'cli.js');
   const { code } = await run(process.execPath, [pw, 'test', '--config', 'e2e/playwright.config.ts'], {
-    RW_E2E_URL: 'http://127.0.0.1:4310',
-    RW_E2E_MAIL_URL: 'http://127.0.0.1:1280',
+    RW_E2E_URL: `http://127.0.0.1:${E2E_PORT}`,
+    RW_E2E_MAIL_URL: `http://127.0.0.1:${E2E_MAIL_WEB_PORT}`,
     PLAYWRIGHT_JSON_OUTPUT_NAME: report,
   });
   let passed = 0, failed = 0, skipped = 0;
@@ -121,6 +126,11 @@ async function browserTests() {
 }
 
 async function main() {
+  // Everything the suites need from Debian, before any suite runs (installed when root).
+  ensureDebianPackages([
+    { pkg: 'mariadb-server', binary: 'mariadbd' },
+    ...(wants('e2e') ? [{ pkg: 'chromium', binary: 'chromium' }] : []),
+  ]);
   const db = await ensureLocalMariaDb({ dir: path.join(ROOT, '.local', 'mariadb'), port: Number(DB_PORT), log: () => {} });
   started.push({ name: 'mariadb', startedHere: db.startedHere, stop: db.stop });
   // Fresh databases for the tests, never the demo data.
