@@ -3,7 +3,7 @@
 // Debian's Chromium against the built client and a running API, database rigwright_e2e).
 // Ends with one line "N passed, N failed" that adds up every suite, for CI.
 import { spawn } from 'node:child_process';
-import { readFileSync, readdirSync, existsSync, rmSync } from 'node:fs';
+import { readFileSync, readdirSync, existsSync, mkdirSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { ensureDatabase, ensureLocalMariaDb } from '../db/local-mariadb';
 import { ensureDebianPackages } from '../db/debian-packages';
@@ -91,6 +91,46 @@ async function apiTests() {
   record('domain and API (node:test)', code, last('pass'), last('fail') + last('cancelled'), last('skipped') + last('todo'));
 }
 
+/** The TypeScript projects of the repository, each type-checked on its own. */
+const TYPE_PROJECTS: { name: string; args: string[] }[] = [
+  { name: 'api, db, e2e, scripts, bench', args: ['node_modules/typescript/bin/tsc', '-p', 'tsconfig.json'] },
+  // ngc checks the client's templates too (strictTemplates), which plain tsc cannot.
+  { name: 'client', args: ['node_modules/@angular/compiler-cli/bundles/src/bin/ngc.js', '-p', 'client/tsconfig.app.json', '--noEmit'] },
+  { name: 'client specs', args: ['node_modules/typescript/bin/tsc', '-p', 'client/tsconfig.spec.json', '--noEmit'] },
+];
+
+/** Type checks (one check per project) and ESLint (one check per file linted). */
+async function staticChecks() {
+  let passed = 0;
+  let failed = 0;
+  for (const project of TYPE_PROJECTS) {
+    console.log(`Type-checking ${project.name} ...`);
+    const { code } = await run(process.execPath, project.args);
+    if (code === 0) passed++;
+    else failed++;
+  }
+  record('type checks (tsc, ngc)', failed ? 1 : 0, passed, failed);
+
+  console.log('Linting (ESLint) ...');
+  const report = path.join(ROOT, 'test-results', 'eslint.json');
+  mkdirSync(path.dirname(report), { recursive: true });
+  rmSync(report, { force: true });
+  const eslint = path.join(ROOT, 'node_modules', 'eslint', 'bin', 'eslint.js');
+  const { code } = await run(process.execPath, [eslint, '.', '--format', 'json', '--output-file', report]);
+  let lintPassed = 0, lintFailed = 0;
+  if (existsSync(report)) {
+    const files = JSON.parse(readFileSync(report, 'utf8')) as { filePath: string; errorCount: number; messages: { line: number; ruleId: string | null; message: string }[] }[];
+    for (const f of files) {
+      if (f.errorCount === 0) lintPassed++;
+      else {
+        lintFailed++;
+        for (const m of f.messages) console.error(`${path.relative(ROOT, f.filePath)}:${m.line}  ${m.message}  (${m.ruleId ?? 'parse'})`);
+      }
+    }
+  }
+  record('lint (eslint)', code, lintPassed, lintFailed);
+}
+
 async function browserTests() {
   buildClientIfStale();
   const env = {
@@ -138,6 +178,7 @@ async function main() {
   ensureDatabase(db, 'rigwright_e2e', { drop: true });
   runTs('db/migrate.ts', ['up'], { RW_DB_NAME: 'rigwright_test', RW_DB_PORT: DB_PORT });
 
+  if (wants('static')) await staticChecks();
   if (wants('client')) await clientUnitTests();
   if (wants('api')) await apiTests();
   if (wants('e2e')) await browserTests();

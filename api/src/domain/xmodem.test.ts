@@ -84,8 +84,8 @@ describe('transfer plans worked by hand', () => {
 
   it('several bauds for the same 1 MiB, 1024/crc image (1 053 697 bytes on the wire)', () => {
     const cases: [number, number][] = [
-      [9600, 1097.6010416666667], // 10 536 970 / 9600: about 18 min 18 s
-      [57600, 182.93350694444444], // about 3 min 3 s
+      [9600, 10_536_970 / 9600], // about 18 min 18 s
+      [57600, 10_536_970 / 57600], // about 3 min 3 s
       [115200, 91.46675347222222],
       [921600, 11.433344184027778],
     ];

@@ -105,6 +105,12 @@ test('with RW_COOKIE_SECURE the session and anti-forgery cookies are Secure', as
 // ---- throttling ----
 
 /** A tiny cookie-keeping HTTP client that connects from a chosen loopback address. */
+/** The parts of the API's JSON answers these tests read. */
+interface ApiBody {
+  user: { callSign: string | null; email: string; roles: string[] };
+  error: { code: string; message: string };
+}
+
 class FromAddress {
   private cookies = new Map<string, string>();
   constructor(
@@ -112,7 +118,7 @@ class FromAddress {
     readonly localAddress: string,
   ) {}
 
-  request(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<{ status: number; body: any; headers: http.IncomingHttpHeaders }> {
+  request(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<{ status: number; body: ApiBody; headers: http.IncomingHttpHeaders }> {
     const payload = body === undefined ? undefined : JSON.stringify(body);
     const h: Record<string, string> = { ...headers };
     if (this.cookies.size) h.cookie = [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ');

@@ -167,7 +167,7 @@ describe('CalculatorsPage', () => {
 describe('calculator formatting', () => {
   it('prints times as m:ss (h:mm:ss past an hour) and seconds with a fitting precision', () => {
     expect(minutesSeconds(91.46675347222222)).toBe('1:31');
-    expect(minutesSeconds(1097.6010416666667)).toBe('18:18');
+    expect(minutesSeconds(10_536_970 / 9600)).toBe('18:18');
     expect(minutesSeconds(3725)).toBe('1:02:05');
     expect(minutesSeconds(0.023)).toBe('0:00');
     expect(secondsText(0.023177083333333334)).toBe('0.0232 s');
