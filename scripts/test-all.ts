@@ -169,6 +169,8 @@ async function main() {
   // Everything the suites need from Debian, before any suite runs (installed when root).
   ensureDebianPackages([
     { pkg: 'mariadb-server', binary: 'mariadbd' },
+    // lrzsz's sx/rx: the independent XMODEM peer of the engines' interoperability tests.
+    ...(wants('api') ? [{ pkg: 'lrzsz', binary: 'sx' }] : []),
     ...(wants('e2e') ? [{ pkg: 'chromium', binary: 'chromium' }] : []),
   ]);
   const db = await ensureLocalMariaDb({ dir: path.join(ROOT, '.local', 'mariadb'), port: Number(DB_PORT), log: () => {} });
