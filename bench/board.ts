@@ -12,8 +12,8 @@ import { ROOT, runTs, waitFor } from '../scripts/services';
 const TICKETS = Number(process.env.BENCH_TICKETS ?? 500);
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 50);
-const API_PORT = 4320;
-const BARE_PORT = 4321;
+const API_PORT = 4330;
+const BARE_PORT = 4331;
 const env = {
   RW_DB_NAME: 'rigwright_bench',
   RW_DB_PORT: process.env.RW_DB_PORT ?? '3407',
