@@ -3,20 +3,14 @@
 // A 16 MiB random buffer; each candidate runs once per round, rounds interleaved so that drift
 // hits all alike; the median MB/s (1 MB = 10^6 bytes) of the rounds is printed. "All three" is fed
 // in 64 KiB chunks as a streamed upload would be, and compared with Node's native SHA-256 alone on
-// the same buffer in the same chunks (and one-shot).
-// "two threads" is createStreamingImageChecksums (checksums-streaming.ts): SHA-256 in the pool's
-// worker, each batch's CRCs on whichever thread is free ("balanced", the default), or with a fixed
-// split (CRC-16 on main, CRC-32 in the worker); its time runs from the first update() until digest()
-// resolves. Its worker is started during the warm-up and reused, as in the API process; the cost of
-// a cold start is measured separately. The machine is shared, so the load average and the CPU time
-// the two-thread runs got (CPU ms per wall ms: 2.0 = two full cores) are printed beside the figures.
+// the same buffer in the same chunks (and one-shot), and the CRCs with the `crc` package's. The
+// machine is shared, so the load average is printed beside the figures.
 import { availableParallelism, loadavg } from 'node:os';
 import { createHash, randomBytes } from 'node:crypto';
 import { crc32 as zlibCrc32 } from 'node:zlib';
 import crcPkg16 from 'crc/crc16xmodem';
 import crcPkg32 from 'crc/crc32';
 import { createImageChecksums, crc16XmodemUpdate, crc32Update } from '../api/src/domain/checksums';
-import { ChecksumWorkerPool, createStreamingImageChecksums } from '../api/src/domain/checksums-streaming';
 
 const SIZE = 16 * 1024 * 1024;
 const CHUNK = 64 * 1024;
@@ -26,19 +20,6 @@ const cpus = availableParallelism();
 
 function chunks(fn: (chunk: Buffer) => void) {
   for (let at = 0; at < SIZE; at += CHUNK) fn(buf.subarray(at, at + CHUNK));
-}
-
-const TWO = 'all three, two threads, 64 KiB chunks';
-const TWO_CRC16_HERE = 'all three, two threads, fixed split';
-const TWO_TRANSFER = 'all three, two threads, transfer only (no ring)';
-const ringPool = new ChecksumWorkerPool();
-const transferPool = new ChecksumWorkerPool({ slots: 0 });
-const twoThreadCpu: number[] = [];
-
-async function twoThreads(pool: ChecksumWorkerPool, share: 'balanced' | 'crc16-here' = 'balanced') {
-  const c = createStreamingImageChecksums({ pool, share });
-  chunks((x) => c.update(x));
-  return c.digest();
 }
 
 const candidates: Record<string, () => unknown> = {
@@ -62,53 +43,27 @@ const candidates: Record<string, () => unknown> = {
     chunks((x) => c.update(x));
     return c.digest();
   },
-  [TWO]: () => twoThreads(ringPool),
-  [TWO_CRC16_HERE]: () => twoThreads(ringPool, 'crc16-here'),
-  [TWO_TRANSFER]: () => twoThreads(transferPool),
 };
 
-async function main() {
+function main() {
   const load0 = loadavg()[0];
-  // Cold start: a fresh pool's first 16 MiB image, thread start included.
-  const coldPool = new ChecksumWorkerPool();
-  let t0 = process.hrtime.bigint();
-  await twoThreads(coldPool);
-  const coldMs = Number(process.hrtime.bigint() - t0) / 1e6;
-  await coldPool.close();
-
-  const one = createImageChecksums();
-  chunks((x) => one.update(x));
-  const expected = JSON.stringify(one.digest());
-  for (const pool of [ringPool, transferPool]) {
-    const got = JSON.stringify(await twoThreads(pool)); // warm-up, and a check that it is right
-    if (got !== expected) throw new Error(`two threads disagree with one: ${got} vs ${expected}`);
-  }
-
   const times: Record<string, number[]> = Object.fromEntries(Object.keys(candidates).map((k) => [k, []]));
-  for (const fn of Object.values(candidates)) await fn(); // warm-up
+  for (const fn of Object.values(candidates)) fn(); // warm-up
   for (let r = 0; r < ROUNDS; r++) {
     for (const [name, fn] of Object.entries(candidates)) {
-      const cpu0 = process.cpuUsage();
-      t0 = process.hrtime.bigint();
-      await fn();
-      const wall = Number(process.hrtime.bigint() - t0) / 1e9;
-      times[name].push(wall);
-      if (name === TWO) {
-        const cpu = process.cpuUsage(cpu0);
-        twoThreadCpu.push((cpu.user + cpu.system) / 1e6 / wall);
-      }
+      const t0 = process.hrtime.bigint();
+      fn();
+      times[name].push(Number(process.hrtime.bigint() - t0) / 1e9);
     }
   }
-  await ringPool.close();
-  await transferPool.close();
-  report(times, coldMs, load0);
+  report(times, load0);
 }
 
 const median = (xs: number[]) => {
   const s = [...xs].sort((a, b) => a - b);
   return s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
 };
-function report(times: Record<string, number[]>, coldMs: number, load0: number) {
+function report(times: Record<string, number[]>, load0: number) {
   const mbps: Record<string, number> = {};
   console.log(`checksums over ${SIZE / 1048576} MiB random bytes, median of ${ROUNDS} rounds (Node ${process.version})`);
   for (const name of Object.keys(candidates)) {
@@ -117,15 +72,10 @@ function report(times: Record<string, number[]>, coldMs: number, load0: number) 
   }
   const sha = mbps['SHA-256 alone (node:crypto), 64 KiB chunks'];
   const ratio = mbps['all three in one pass, 64 KiB chunks'] / sha;
-  console.log(`ratio all three (one thread) / SHA-256 alone (both in 64 KiB chunks): ${ratio.toFixed(2)} (aim ≥ 0.5)`);
-  console.log(`ratio all three (two threads) / SHA-256 alone (both in 64 KiB chunks): ${(mbps[TWO] / sha).toFixed(2)} (aim ≥ 0.5)`);
-  console.log(`ratio all three (two threads, fixed split) / SHA-256 alone: ${(mbps[TWO_CRC16_HERE] / sha).toFixed(2)}`);
-  console.log(`ratio all three (two threads, transfer only) / SHA-256 alone: ${(mbps[TWO_TRANSFER] / sha).toFixed(2)}`);
-  console.log(`two threads: CPU ms per wall ms, median ${median(twoThreadCpu).toFixed(2)} (2.00 = both cores for us)`);
-  console.log(`two threads, cold start (new worker) for one 16 MiB image: ${coldMs.toFixed(0)} ms`);
+  console.log(`ratio all three / SHA-256 alone (both in 64 KiB chunks): ${ratio.toFixed(2)} (aim ≥ 0.5)`);
   const handVsPkg = mbps['CRC-16/XMODEM slice-by-16 (used)'] / mbps['CRC-16/XMODEM `crc` package 4.3.2 (not used)'];
   console.log(`CRC-16/XMODEM slice-by-16 / crc package: ${handVsPkg.toFixed(1)}x`);
   console.log(`load average (1 min) at start ${load0.toFixed(2)}, at end ${loadavg()[0].toFixed(2)}, on ${cpus} CPUs`);
 }
 
-void main();
+main();

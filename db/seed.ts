@@ -15,6 +15,8 @@ import { createSequelize } from '../api/src/db';
 import { migrateUp } from './migrator';
 import * as s001 from './seeders/001-demo-accounts';
 import * as s002 from './seeders/002-demo-tickets';
+import * as s003 from './seeders/003-demo-club-settings';
+import { DEMO_CLUB_NAME } from './seeders/demo-club';
 import { seedBoardLoad } from './seeders/board-load';
 
 export { seedBoardLoad };
@@ -23,6 +25,7 @@ type Seed = { up(p: { context: Sequelize }): Promise<void>; down(p: { context: S
 const SEEDERS: [string, Seed][] = [
   ['001-demo-accounts', s001],
   ['002-demo-tickets', s002],
+  ['003-demo-club-settings', s003],
 ];
 
 export function createSeeder(sequelize: Sequelize, log = false) {
@@ -63,7 +66,7 @@ async function main(args: string[]): Promise<void> {
     const done = await seeder.up();
     console.log(
       done.length
-        ? `Seeded the demo club Kestrel Fen Radio Society in ${config.RW_DB_NAME} (${done.map((s) => s.name).join(', ')}).`
+        ? `Seeded the demo club ${DEMO_CLUB_NAME} in ${config.RW_DB_NAME} (${done.map((s) => s.name).join(', ')}).`
         : `The demo club is already seeded in ${config.RW_DB_NAME}; nothing to do.`,
     );
   } finally {

@@ -6,9 +6,7 @@ import { pinoHttp } from 'pino-http';
 import { randomUUID } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
-import type { Sequelize } from 'sequelize';
-import type { Config } from './config';
-import type { Logger } from './logger';
+import { appDeps, type AppDepsInit } from './deps';
 import { AppError, NotFoundError } from './errors';
 import { sessionMiddleware } from './modules/auth/session';
 import { csrfProtection } from './modules/auth/csrf';
@@ -19,13 +17,8 @@ import { createTicketsRouter } from './modules/tickets/tickets.router';
 import { createBoardRouter } from './modules/board/board.router';
 import { calcRouter } from './modules/calc/calc.router';
 
-export interface AppDeps {
-  config: Config;
-  sequelize: Sequelize;
-  logger: Logger;
-}
-
-export function createApp(deps: AppDeps): express.Express {
+export function createApp(init: AppDepsInit): express.Express {
+  const deps = appDeps(init);
   const { config, logger } = deps;
   const app = express();
   app.disable('x-powered-by');

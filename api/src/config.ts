@@ -24,7 +24,8 @@ const schema = z.object({
   RW_COOKIE_SECURE: bool.default(true),
   RW_SMTP_HOST: z.string().default('127.0.0.1'),
   RW_SMTP_PORT: z.coerce.number().int().default(1025),
-  RW_MAIL_FROM: z.string().default('Rigwright bench <bench@kestrelfen.example>'),
+  /** Sender of every mail, e.g. `Bench <bench@club.example>`; unset: built from the club's name (outbox.worker.ts mailSender). */
+  RW_MAIL_FROM: z.string().optional(),
   /** Milliseconds between outbox sweeps; 0 disables the in-process worker. */
   RW_OUTBOX_INTERVAL_MS: z.coerce.number().int().min(0).default(2000),
   /** Folder of the built client to serve (empty: API only). */

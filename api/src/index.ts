@@ -4,6 +4,7 @@ import { createLogger } from './logger';
 import { createSequelize } from './db';
 import { initModels } from './models';
 import { createApp } from './app';
+import { systemClock, type AppDeps } from './deps';
 import { startOutboxWorker } from './modules/outbox/outbox.worker';
 
 const config = loadConfig();
@@ -11,7 +12,8 @@ const logger = createLogger(config.RW_LOG_LEVEL);
 const sequelize = createSequelize(config);
 initModels(sequelize);
 
-const app = createApp({ config, sequelize, logger });
+const deps: AppDeps = { config, sequelize, logger, clock: systemClock };
+const app = createApp(deps);
 const server = app.listen(config.RW_PORT, config.RW_HOST, () => {
   logger.info({ url: `http://${config.RW_HOST}:${config.RW_PORT}` }, 'Rigwright API listening');
 });
@@ -19,7 +21,7 @@ server.on('error', (err) => {
   logger.fatal({ err }, 'cannot listen');
   process.exit(1);
 });
-const worker = config.RW_OUTBOX_INTERVAL_MS > 0 ? startOutboxWorker({ config, sequelize, logger }) : undefined;
+const worker = config.RW_OUTBOX_INTERVAL_MS > 0 ? startOutboxWorker(deps) : undefined;
 
 let stopping = false;
 async function shutdown(signal: string) {

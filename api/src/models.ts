@@ -1,14 +1,20 @@
 // Registers every Sequelize model on one connection and wires associations in one place.
 import type { Sequelize } from 'sequelize';
-import { initUserModels, User } from './modules/users/user.model';
+import { initUserModels, PasswordReset, User, UserRole } from './modules/users/user.model';
 import { initTicketModels, Ticket, TicketEvent } from './modules/tickets/ticket.model';
 import { initOutboxModel } from './modules/outbox/outbox.model';
+import { initClubSettingsModel } from './modules/club/club-settings.model';
 
 export function initModels(sequelize: Sequelize): void {
   initUserModels(sequelize);
   initTicketModels(sequelize);
   initOutboxModel(sequelize);
+  initClubSettingsModel(sequelize);
 
+  User.hasMany(UserRole, { as: 'roleRows', foreignKey: 'userId' });
+  UserRole.belongsTo(User, { foreignKey: 'userId' });
+  User.hasMany(PasswordReset, { foreignKey: 'userId' });
+  PasswordReset.belongsTo(User, { foreignKey: 'userId' });
   Ticket.belongsTo(User, { as: 'owner', foreignKey: 'ownerUserId' });
   Ticket.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' });
   Ticket.hasMany(TicketEvent, { as: 'events', foreignKey: 'ticketId' });

@@ -2,7 +2,7 @@
 // rigwright_test on 127.0.0.1:3407). Run test files one at a time (--test-concurrency=1): each
 // setupTestApp() empties every table.
 //
-//   const t = await setupTestApp();                 // { app, sequelize, config, logger, close() }
+//   const t = await setupTestApp();                 // { app, sequelize, config, logger, clock, close() }
 //   after(() => t.close());
 //   await createUser(t.sequelize, { email, password, roles: ['technician'] });
 //   const tech = await signIn(t.app, email, password);  // cookie-keeping client, adds X-XSRF-TOKEN
@@ -18,6 +18,7 @@ import { createLogger, type Logger } from '../src/logger';
 import { createSequelize } from '../src/db';
 import { initModels } from '../src/models';
 import { createApp } from '../src/app';
+import { systemClock, type Clock } from '../src/deps';
 import { migrateUp } from '../../db/migrator';
 import { hashPassword } from '../src/modules/auth/passwords';
 import type { Role } from '../src/contracts/accounts';
@@ -30,7 +31,29 @@ export interface TestApp {
   sequelize: Sequelize;
   config: Config;
   logger: Logger;
+  /** The app's clock: the system clock, or the one given to setupTestApp. */
+  clock: Clock;
   close(): Promise<void>;
+}
+
+/** A clock that stands still until the test moves it, so no test has to wait for time to pass. */
+export interface TestClock extends Clock {
+  /** Moves the clock on by `ms` milliseconds. */
+  advance(ms: number): void;
+  set(at: Date): void;
+}
+
+/** A TestClock starting at `start` (now, by default). */
+export function createTestClock(start: Date = new Date()): TestClock {
+  let at = start.getTime();
+  const clock = (() => new Date(at)) as TestClock;
+  clock.advance = (ms) => {
+    at += ms;
+  };
+  clock.set = (date) => {
+    at = date.getTime();
+  };
+  return clock;
 }
 
 /** Tables the helpers never empty or compare: migration bookkeeping and throttle counters. */
@@ -103,10 +126,11 @@ export async function truncateAll(sequelize: Sequelize): Promise<void> {
 /**
  * Connects (once per process), migrates, empties every table and builds an app. The outbox worker
  * is not started and the logger is silent. `overrides` change settings for this app only, e.g.
- * `{ RW_SIGNIN_MAX_PER_ADDRESS: '5' }`; database settings come from the first call. Close the
+ * `{ RW_SIGNIN_MAX_PER_ADDRESS: '5' }`; database settings come from the first call. `options.clock`
+ * (e.g. createTestClock()) is the time every service of this app reads. Close the
  * last app built in the file (e.g. in `after`), or the open connection keeps the process alive.
  */
-export async function setupTestApp(overrides: ConfigOverrides = {}): Promise<TestApp> {
+export async function setupTestApp(overrides: ConfigOverrides = {}, options: { clock?: Clock } = {}): Promise<TestApp> {
   const config = testConfig(overrides);
   shared ??= (async () => {
     const lock = await ensureDatabaseAndLock(config);
@@ -118,7 +142,8 @@ export async function setupTestApp(overrides: ConfigOverrides = {}): Promise<Tes
   const { sequelize, lock } = await shared;
   await truncateAll(sequelize);
   const logger = createLogger('silent');
-  const app = createApp({ config, sequelize, logger });
+  const clock = options.clock ?? systemClock;
+  const app = createApp({ config, sequelize, logger, clock });
   // Each call empties the tables, so only the latest app is meaningful: closing it closes the
   // shared connection (closing an older one is a no-op), so a file that builds several apps and
   // closes just the last one still exits.
@@ -129,6 +154,7 @@ export async function setupTestApp(overrides: ConfigOverrides = {}): Promise<Tes
     sequelize,
     config,
     logger,
+    clock,
     async close() {
       if (closed) return;
       closed = true;
@@ -139,6 +165,13 @@ export async function setupTestApp(overrides: ConfigOverrides = {}): Promise<Tes
       }
     },
   };
+}
+
+/** Names the club in the settings row (mail text, mail sender, password policy); the row is created if truncated. */
+export async function setClubName(sequelize: Sequelize, name: string): Promise<void> {
+  await sequelize.query('INSERT INTO club_settings (id, club_name) VALUES (1, :name) ON DUPLICATE KEY UPDATE club_name = VALUES(club_name)', {
+    replacements: { name },
+  });
 }
 
 export interface NewTestUser {

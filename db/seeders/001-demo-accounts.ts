@@ -3,7 +3,7 @@ import { randomBytes } from 'node:crypto';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { loadConfig } from '../../api/src/config';
 import { argon2ParamsFromConfig, hashPassword, passwordProblem } from '../../api/src/modules/auth/passwords';
-import { DEMO_ACCOUNTS } from './demo-club';
+import { DEMO_ACCOUNTS, DEMO_CLUB_NAME } from './demo-club';
 
 export async function up({ context: sequelize }: { context: Sequelize }): Promise<void> {
   const params = argon2ParamsFromConfig(loadConfig());
@@ -16,7 +16,7 @@ export async function up({ context: sequelize }: { context: Sequelize }): Promis
     if (existing.length > 0) continue; // someone registered it by hand: leave it alone
     if (account.password) {
       // The documented demo passwords must pass the same policy as any other password.
-      const problem = passwordProblem(account.password, account);
+      const problem = passwordProblem(account.password, { ...account, clubName: DEMO_CLUB_NAME });
       if (problem) throw new Error(`Demo password for ${account.email} is refused by the policy: ${problem}`);
     }
     const passwordHash = await hashPassword(account.password ?? randomBytes(24).toString('base64url'), params);

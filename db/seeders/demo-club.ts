@@ -6,6 +6,9 @@ import type { Role } from '../../api/src/contracts/accounts';
 import type { TicketState } from '../../api/src/domain/workflow';
 import type { EquipmentKind } from '../../api/src/contracts/tickets';
 
+/** The demo club's name: seeded into the club settings (003-demo-club-settings.ts), never used by the code. */
+export const DEMO_CLUB_NAME = 'Kestrel Fen Radio Society';
+
 export interface DemoAccount {
   email: string;
   displayName: string;

@@ -11,8 +11,8 @@
 //   "slice-by-16" in crc16-xmodem.ts (no Node imports, so the XMODEM engines can use it in a browser): measured side by side on this machine it ran at ~1300 MB/s against
 //   ~270-310 MB/s for the `crc` package's crc16xmodem (see bench/checksums.ts and the report).
 //
-// On one thread the three per-byte costs add up; checksums-streaming.ts computes the same sums on two
-// threads (async digest) for uploads.
+// One thread on purpose: for images of a few MiB the three sums take milliseconds against seconds of
+// network time (bench/checksums.ts), so an upload streams through createImageChecksums() as it comes.
 
 import { createHash, type Hash } from 'node:crypto';
 import { crc32 as zlibCrc32 } from 'node:zlib';

@@ -2,7 +2,7 @@
 // Thin handlers: parse, call the service, set cookies, answer. The token is only ever in the
 // HttpOnly cookie, never in a body.
 import { Router, type Response } from 'express';
-import type { AppDeps } from '../../app';
+import { forRequest, type AppDeps } from '../../deps';
 import { parseInput } from '../../errors';
 import * as auth from './auth.service';
 import { changePasswordBody, registerBody, resetConfirmBody, resetRequestBody, signInBody } from './auth.schemas';
@@ -12,7 +12,7 @@ import { sessionState } from './session';
 import { anonymousFormLimiter, signInLimiters } from './throttle';
 import { clearSessionCookie, setSessionCookie, signSessionToken } from './tokens';
 
-export function createAuthRouter(deps: AppDeps): Router {
+export function createAuthRouter(deps: Pick<AppDeps, 'config' | 'sequelize' | 'logger' | 'clock'>): Router {
   const { config } = deps;
   const router = Router();
 
@@ -31,13 +31,13 @@ export function createAuthRouter(deps: AppDeps): Router {
 
   router.post('/sign-in', ...signInLimiters(deps), async (req, res) => {
     const body = parseInput(signInBody, req.body);
-    const signedIn = await auth.signIn(deps, body.email, body.password, req.log);
+    const signedIn = await auth.signIn(forRequest(deps, req), null, body);
     startSession(res, signedIn);
     res.json({ user: signedIn.user });
   });
 
   router.post('/sign-out', requireSignedIn, async (req, res) => {
-    await auth.endSessions(deps, currentUser(req).id);
+    await auth.endSessions(forRequest(deps, req), currentUser(req));
     req.log?.info({ event: 'sign_out', userId: currentUser(req).id }, 'signed out; sessions ended');
     clearSessionCookie(res, config);
     issueCsrfCookie(res, config);
@@ -46,27 +46,27 @@ export function createAuthRouter(deps: AppDeps): Router {
 
   router.post('/register', anonymousFormLimiter(deps, 'register-addr', 'registrations'), async (req, res) => {
     const body = parseInput(registerBody, req.body);
-    const signedIn = await auth.register(deps, body, req.log);
+    const signedIn = await auth.register(forRequest(deps, req), null, body);
     startSession(res, signedIn);
     res.status(201).json({ user: signedIn.user });
   });
 
   router.post('/password', requireSignedIn, async (req, res) => {
     const body = parseInput(changePasswordBody, req.body);
-    const signedIn = await auth.changePassword(deps, currentUser(req).id, body.currentPassword, body.newPassword, req.log);
+    const signedIn = await auth.changePassword(forRequest(deps, req), currentUser(req), body);
     startSession(res, signedIn);
     res.status(204).end();
   });
 
   router.post('/password-reset/request', anonymousFormLimiter(deps, 'reset-addr', 'password-reset requests'), async (req, res) => {
     const body = parseInput(resetRequestBody, req.body);
-    await auth.requestPasswordReset(deps, body.email, req.log);
+    await auth.requestPasswordReset(forRequest(deps, req), null, body);
     res.status(202).json({ message: 'If an account uses that address, a reset link is on its way.' });
   });
 
   router.post('/password-reset/confirm', anonymousFormLimiter(deps, 'reset-confirm-addr', 'password-reset attempts'), async (req, res) => {
     const body = parseInput(resetConfirmBody, req.body);
-    await auth.confirmPasswordReset(deps, body.token, body.newPassword, req.log);
+    await auth.confirmPasswordReset(forRequest(deps, req), null, body);
     res.status(204).end();
   });
 

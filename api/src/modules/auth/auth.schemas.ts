@@ -55,3 +55,6 @@ export const resetConfirmBody = z.strictObject({
 
 export type SignInBody = z.infer<typeof signInBody>;
 export type RegisterBody = z.infer<typeof registerBody>;
+export type ChangePasswordBody = z.infer<typeof changePasswordBody>;
+export type ResetRequestBody = z.infer<typeof resetRequestBody>;
+export type ResetConfirmBody = z.infer<typeof resetConfirmBody>;

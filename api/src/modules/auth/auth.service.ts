@@ -1,23 +1,23 @@
 // Sign-in, registration, password change and password reset. Services see no req/res; the
 // router sets and clears cookies.
 import { createHash, randomBytes } from 'node:crypto';
-import { Op, type Sequelize } from 'sequelize';
-import type { Config } from '../../config';
-import type { Logger } from '../../logger';
+import { Op } from 'sequelize';
+import type { Anonymous, AppDeps } from '../../deps';
 import { AppError, ValidationError } from '../../errors';
 import { enqueueMail } from '../outbox/outbox.service';
+import { readClubName } from '../club/club-settings.service';
+import type { SessionUser } from './session-user';
+import { passwordResetMail } from './auth-mails';
 import { PasswordReset, User } from '../users/user.model';
 import type { User as PublicUser } from '../../contracts/accounts';
 import { assertPasswordAcceptable, createAccount, findUser, findUserByEmail, toPublicUser } from '../users/users.service';
 
 export { toPublicUser as publicUser };
 import { argon2ParamsFromConfig, dummyHashFor, hashPassword, needsRehash, verifyPassword } from './passwords';
-import type { RegisterBody } from './auth.schemas';
+import type { ChangePasswordBody, RegisterBody, ResetConfirmBody, ResetRequestBody, SignInBody } from './auth.schemas';
 
-export interface AuthDeps {
-  config: Config;
-  sequelize: Sequelize;
-}
+/** The logger is the request's (see forRequest in deps.ts), so what is logged here carries its id. */
+export type AuthDeps = Pick<AppDeps, 'config' | 'sequelize' | 'logger' | 'clock'>;
 
 /** A signed-in person and the generation their new session token must carry. */
 export interface SignedIn {
@@ -32,7 +32,9 @@ const invalidCredentials = () =>
  * Unknown e-mail, wrong password and disabled account all answer alike, and take alike: an
  * unknown e-mail is verified against a dummy hash of the current parameters.
  */
-export async function signIn(deps: AuthDeps, email: string, password: string, log?: Logger): Promise<SignedIn> {
+export async function signIn(deps: AuthDeps, _actor: Anonymous, input: SignInBody): Promise<SignedIn> {
+  const { email, password } = input;
+  const log = deps.logger;
   const params = argon2ParamsFromConfig(deps.config);
   const user = await findUserByEmail(email);
   const ok = await verifyPassword(user?.passwordHash ?? (await dummyHashFor(params)), password);
@@ -50,7 +52,8 @@ export async function signIn(deps: AuthDeps, email: string, password: string, lo
   return { user: toPublicUser(user), generation: user.sessionGeneration };
 }
 
-export async function register(deps: AuthDeps, body: RegisterBody, log?: Logger): Promise<SignedIn> {
+export async function register(deps: AuthDeps, _actor: Anonymous, body: RegisterBody): Promise<SignedIn> {
+  const log = deps.logger;
   const user = await deps.sequelize.transaction((transaction) =>
     createAccount(deps.config, { ...body, callSign: body.callSign ?? null, roles: ['member'] }, transaction),
   );
@@ -59,11 +62,14 @@ export async function register(deps: AuthDeps, body: RegisterBody, log?: Logger)
 }
 
 /** Ends every session of the person (the token generation moves on). */
-export async function endSessions(deps: AuthDeps, userId: number): Promise<void> {
-  await User.increment('sessionGeneration', { by: 1, where: { id: userId } });
+export async function endSessions(_deps: AuthDeps, actor: SessionUser): Promise<void> {
+  await User.increment('sessionGeneration', { by: 1, where: { id: actor.id } });
 }
 
-export async function changePassword(deps: AuthDeps, userId: number, currentPassword: string, newPassword: string, log?: Logger): Promise<SignedIn> {
+export async function changePassword(deps: AuthDeps, actor: SessionUser, input: ChangePasswordBody): Promise<SignedIn> {
+  const { currentPassword, newPassword } = input;
+  const userId = actor.id;
+  const log = deps.logger;
   return deps.sequelize.transaction(async (transaction) => {
     const user = await findUser(userId, transaction, true);
     if (!user) throw invalidCredentials();
@@ -71,7 +77,7 @@ export async function changePassword(deps: AuthDeps, userId: number, currentPass
       log?.info({ event: 'password_change_refused', userId }, 'current password wrong');
       throw new ValidationError('Your current password is not right.', { currentPassword: 'Your current password is not right.' });
     }
-    assertPasswordAcceptable(newPassword, user, 'newPassword');
+    await assertPasswordAcceptable(newPassword, user, 'newPassword', transaction);
     user.passwordHash = await hashPassword(newPassword, argon2ParamsFromConfig(deps.config));
     user.sessionGeneration = user.sessionGeneration + 1;
     await user.save({ transaction });
@@ -88,8 +94,10 @@ export function hashResetToken(token: string): string {
  * Always succeeds from the caller's view. When the account exists (and is not disabled), stores
  * the SHA-256 of a random single-use token and queues the mail in the same transaction.
  */
-export async function requestPasswordReset(deps: AuthDeps, email: string, log?: Logger): Promise<void> {
-  const { config } = deps;
+export async function requestPasswordReset(deps: AuthDeps, _actor: Anonymous, input: ResetRequestBody): Promise<void> {
+  const { config, clock } = deps;
+  const { email } = input;
+  const log = deps.logger;
   await deps.sequelize.transaction(async (transaction) => {
     const user = await findUserByEmail(email, transaction);
     if (!user || user.disabled) {
@@ -98,44 +106,40 @@ export async function requestPasswordReset(deps: AuthDeps, email: string, log?: 
     }
     const token = randomBytes(32).toString('base64url');
     const minutes = config.RW_RESET_TOKEN_MINUTES;
+    const now = clock();
     await PasswordReset.create(
-      { userId: user.id, tokenHash: hashResetToken(token), expiresAt: new Date(Date.now() + minutes * 60_000), usedAt: null },
+      { userId: user.id, tokenHash: hashResetToken(token), expiresAt: new Date(now.getTime() + minutes * 60_000), usedAt: null, createdAt: now },
       { transaction },
     );
     const link = `${config.RW_PUBLIC_URL.replace(/\/$/, '')}/reset-password?token=${encodeURIComponent(token)}`;
-    await enqueueMail(transaction, {
-      kind: 'password_reset',
-      to: user.email,
-      subject: 'Reset your Rigwright password',
-      text:
-        `Hello ${user.displayName},\n\n` +
-        `Someone (we hope you) asked to reset the password of your Rigwright account at the Kestrel Fen Radio Society bench.\n` +
-        `Open this link within ${minutes} minutes to choose a new password; it works once:\n\n${link}\n\n` +
-        `If you did not ask for this, ignore this mail: your password stays as it is.\n`,
-    });
+    const mail = passwordResetMail({ clubName: await readClubName(transaction), displayName: user.displayName, link, minutes });
+    await enqueueMail(transaction, { kind: 'password_reset', to: user.email, ...mail }, now);
     log?.info({ event: 'password_reset_requested', userId: user.id }, 'password reset mail queued');
   });
 }
 
 /** Sets a new password from a reset token: single use, unexpired; ends every session. */
-export async function confirmPasswordReset(deps: AuthDeps, token: string, newPassword: string, log?: Logger): Promise<void> {
+export async function confirmPasswordReset(deps: AuthDeps, _actor: Anonymous, input: ResetConfirmBody): Promise<void> {
+  const { token, newPassword } = input;
+  const log = deps.logger;
+  const now = deps.clock();
   const invalid = () =>
     new AppError(400, 'reset_token_invalid', 'This reset link is not valid any more. Ask for a new one from the sign-in page.');
   await deps.sequelize.transaction(async (transaction) => {
     const reset = await PasswordReset.findOne({
-      where: { tokenHash: hashResetToken(token), usedAt: null, expiresAt: { [Op.gt]: new Date() } },
+      where: { tokenHash: hashResetToken(token), usedAt: null, expiresAt: { [Op.gt]: now } },
       transaction,
       lock: transaction.LOCK.UPDATE,
     });
     if (!reset) throw invalid();
     const user = await findUser(reset.userId, transaction, true);
     if (!user || user.disabled) throw invalid();
-    assertPasswordAcceptable(newPassword, user, 'newPassword');
+    await assertPasswordAcceptable(newPassword, user, 'newPassword', transaction);
     user.passwordHash = await hashPassword(newPassword, argon2ParamsFromConfig(deps.config));
     user.sessionGeneration = user.sessionGeneration + 1;
     await user.save({ transaction });
     // This token and any other outstanding ones for the person are spent.
-    await PasswordReset.update({ usedAt: new Date() }, { where: { userId: user.id, usedAt: null }, transaction });
+    await PasswordReset.update({ usedAt: now }, { where: { userId: user.id, usedAt: null }, transaction });
     log?.info({ event: 'password_reset', userId: user.id }, 'password reset; sessions ended');
   });
 }

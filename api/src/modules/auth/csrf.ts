@@ -5,7 +5,7 @@
 // session does not pass. OWASP CSRF Prevention Cheat Sheet, "Signed Double-Submit Cookie".
 import type { NextFunction, Request, Response } from 'express';
 import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
-import type { AppDeps } from '../../app';
+import type { AppDeps } from '../../deps';
 import type { Config } from '../../config';
 import { ForbiddenError } from '../../errors';
 import { sessionState } from './session';
@@ -64,7 +64,7 @@ function sameString(a: string, b: string): boolean {
   return x.length === y.length && timingSafeEqual(x, y);
 }
 
-export function csrfProtection(deps: AppDeps, options: { exemptPaths?: Iterable<string> } = {}) {
+export function csrfProtection(deps: Pick<AppDeps, 'config'>, options: { exemptPaths?: Iterable<string> } = {}) {
   const { config } = deps;
   const exempt = new Set(options.exemptPaths ?? []);
   return (req: Request, res: Response, next: NextFunction): void => {

@@ -7,8 +7,8 @@ import { test, after } from 'node:test';
 import assert from 'node:assert/strict';
 import { hash } from '@node-rs/argon2';
 import { QueryTypes } from 'sequelize';
-import { hashPassword, needsRehash, parseHashParams, passwordProblem, verifyPassword } from './passwords';
-import { anonymous, createUser, setupTestApp, signIn } from '../../../test/helpers';
+import { clubWords, hashPassword, needsRehash, parseHashParams, passwordProblem, verifyPassword } from './passwords';
+import { anonymous, createUser, setClubName, setupTestApp, signIn } from '../../../test/helpers';
 
 const FLOOR = { memoryCost: 19456, timeCost: 2, parallelism: 1 };
 const apps: { close(): Promise<void> }[] = [];
@@ -117,7 +117,8 @@ test('common passwords are refused, also with digits and symbols around them', (
 });
 
 test('club words and the person\'s own details are refused', () => {
-  const me = { email: 'tamsin.gale@kestrelfen.example', displayName: 'Tamsin Gale', callSign: 'Q2KFT' };
+  // The club's name comes from the club settings (the API reads it per request; see below).
+  const me = { email: 'tamsin.gale@kestrelfen.example', displayName: 'Tamsin Gale', callSign: 'Q2KFT', clubName: 'Kestrel Fen Radio Society' };
   for (const pw of ['Rigwright2024', 'rigwright!!', 'Kestrel Fen 1', 'kestrelfen-bench', 'tamsin.gale@kestrelfen.example', 'TamsinGale99', 'q2kft-q2kft', 'Q2KFT12345']) {
     assert.match(passwordProblem(pw, me) ?? '', /too easy to guess/, pw);
   }
@@ -125,6 +126,42 @@ test('club words and the person\'s own details are refused', () => {
   // include a club word still pass.
   assert.equal(passwordProblem('TamsinGale99', { email: 'ivo@kestrelfen.example', displayName: 'Ivo Marsh' }), undefined);
   assert.equal(passwordProblem('my rigwright bench has a lovely old scope', me), undefined);
+});
+
+test('the club words come from the club\'s name, not from the code', () => {
+  assert.deepEqual(clubWords('Kestrel Fen Radio Society').sort(), [
+    'fenradio',
+    'fenradiosociety',
+    'kestrel',
+    'kestrelfen',
+    'kestrelfenradio',
+    'kestrelfenradiosociety',
+    'kfrs',
+    'radio',
+    'radiosociety',
+    'society',
+  ]);
+  assert.deepEqual(clubWords('our club').sort(), ['club', 'ourclub']);
+  // Another club's name guards that club, and the demo club's words are nobody's business there.
+  const saltmarsh = { clubName: 'Saltmarsh Amateur Radio Group' };
+  for (const pw of ['Saltmarsh2024', 'saltmarsh-radio', 'SARG-1234!', 'radiogroup-77']) {
+    assert.match(passwordProblem(pw, saltmarsh) ?? '', /too easy to guess/, pw);
+  }
+  assert.equal(passwordProblem('kestrelfen-bench', saltmarsh), undefined);
+  assert.equal(passwordProblem('kestrelfen-bench'), undefined, 'without a club name only the product and the person count');
+  assert.match(passwordProblem('Rigwright2024', saltmarsh) ?? '', /too easy to guess/, 'the product name in any club');
+});
+
+test('the API refuses words of the club named in the club settings', async () => {
+  const t = await setupTestApp();
+  apps.push(t);
+  await setClubName(t.sequelize, 'Saltmarsh Amateur Radio Group');
+  const anon = await anonymous(t.app);
+  const res = await anon
+    .post('/api/auth/register', { email: 'orla.vance@kestrelfen.example', password: 'Saltmarsh2024', displayName: 'Orla Vance' })
+    .expect(400);
+  assert.match(res.body.error.fields.password, /too easy to guess/);
+  await anon.post('/api/auth/register', { email: 'orla.vance@kestrelfen.example', password: 'kestrelfen-bench', displayName: 'Orla Vance' }).expect(201);
 });
 
 test('the API refuses policy failures with a 400 on the password field and stores nothing', async () => {

@@ -89,8 +89,24 @@ const COMMON = new Set(
     .filter((line) => line && !line.startsWith('#')),
 );
 
-/** Words that belong to this club and this product: too easy to guess here. */
-const CLUB_WORDS = ['rigwright', 'kestrelfen', 'kestrel', 'kestrelfenradiosociety', 'kfrs', 'radiosociety'];
+/** The product's own name: too easy to guess in any club. */
+const PRODUCT_WORDS = ['rigwright'];
+
+/**
+ * Words built from the club's name (from the club settings): each word of four letters or more,
+ * every run of two or more neighbouring words run together, and the initials of three or more
+ * words. "Kestrel Fen Radio Society" gives kestrel, radio, society, kestrelfen, fenradio, ...,
+ * kestrelfenradiosociety and kfrs.
+ */
+export function clubWords(clubName: string): string[] {
+  const words = clubName.split(/[\s\-_.,'’&/]+/).map(lettersAndDigits).filter(Boolean);
+  const out = new Set<string>(words.filter((w) => w.length >= 4));
+  for (let from = 0; from < words.length; from++) {
+    for (let to = from + 2; to <= words.length; to++) out.add(words.slice(from, to).join(''));
+  }
+  if (words.length >= 3) out.add(words.map((w) => [...w][0]).join(''));
+  return [...out];
+}
 
 function lettersOnly(s: string): string {
   return s.toLowerCase().replace(/[^\p{L}]/gu, '');
@@ -103,6 +119,8 @@ export interface PasswordContext {
   email?: string;
   displayName?: string;
   callSign?: string | null;
+  /** The club's name from the club settings; its words are refused too (see clubWords). */
+  clubName?: string;
 }
 
 /** The reason a password is refused, or undefined when it is acceptable. */
@@ -128,7 +146,8 @@ export function passwordProblem(password: string, context: PasswordContext = {})
   }
   if (context.displayName) personal.push(lettersAndDigits(context.displayName), ...context.displayName.split(/\s+/).map(lettersAndDigits));
   if (context.callSign) personal.push(lettersAndDigits(context.callSign));
-  const guessable = [...CLUB_WORDS, ...personal.filter((w) => w.length >= 3)];
+  const club = context.clubName ? clubWords(context.clubName) : [];
+  const guessable = [...PRODUCT_WORDS, ...club, ...personal.filter((w) => w.length >= 3)];
   // Refused when the password is only such a word, with digits or symbols around it.
   if (guessable.some((w) => w === alnum || w === letters)) {
     return 'That password is too easy to guess here: do not build it from the club, Rigwright or your own name, e-mail or call sign.';

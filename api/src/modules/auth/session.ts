@@ -3,47 +3,31 @@
 // or of a disabled account counts as signed out (the cookie is cleared); the guards then answer 401
 // on routes that need sign-in.
 import type { NextFunction, Request, Response } from 'express';
-import { QueryTypes, type Sequelize } from 'sequelize';
-import type { AppDeps } from '../../app';
-import { ROLES, type Role } from '../../contracts/accounts';
+import type { AppDeps } from '../../deps';
+import { User } from '../users/user.model';
 import type { SessionUser } from './session-user';
 import { SESSION_COOKIE, clearSessionCookie, setSessionCookie, shouldRenew, signSessionToken, verifySessionToken } from './tokens';
-
-interface SessionRow {
-  id: number;
-  email: string;
-  display_name: string;
-  call_sign: string | null;
-  disabled: number | boolean;
-  session_generation: number;
-  roles: string | null;
-}
 
 export interface LoadedUser extends SessionUser {
   disabled: boolean;
   sessionGeneration: number;
 }
 
-/** One query: the person's identity, state and roles. */
-export async function loadSessionUser(sequelize: Sequelize, id: number): Promise<LoadedUser | undefined> {
-  const rows = await sequelize.query<SessionRow>(
-    `SELECT u.id, u.email, u.display_name, u.call_sign, u.disabled, u.session_generation,
-            GROUP_CONCAT(r.role) AS roles
-       FROM users u LEFT JOIN user_roles r ON r.user_id = u.id
-      WHERE u.id = ? GROUP BY u.id`,
-    { replacements: [id], type: QueryTypes.SELECT },
-  );
-  const row = rows[0];
-  if (!row) return undefined;
-  const held = new Set((row.roles ?? '').split(',').filter(Boolean));
+/** The person's identity, state and roles: one query (users with user_roles, through the model's association). */
+export async function loadSessionUser(id: number): Promise<LoadedUser | undefined> {
+  const user = await User.findByPk(id, {
+    attributes: ['id', 'email', 'displayName', 'callSign', 'disabled', 'sessionGeneration'],
+    include: [{ association: 'roleRows', attributes: ['userId', 'role'] }],
+  });
+  if (!user) return undefined;
   return {
-    id: Number(row.id),
-    email: row.email,
-    displayName: row.display_name,
-    callSign: row.call_sign,
-    roles: ROLES.filter((r): r is Role => held.has(r)),
-    disabled: !!row.disabled,
-    sessionGeneration: Number(row.session_generation),
+    id: user.id,
+    email: user.email,
+    displayName: user.displayName,
+    callSign: user.callSign,
+    roles: user.roles,
+    disabled: !!user.disabled,
+    sessionGeneration: user.sessionGeneration,
   };
 }
 
@@ -62,8 +46,8 @@ export function sessionState(res: Response): SessionState {
   return (res.locals.rwSession ??= {}) as SessionState;
 }
 
-export function sessionMiddleware(deps: AppDeps) {
-  const { config, sequelize } = deps;
+export function sessionMiddleware(deps: Pick<AppDeps, 'config'>) {
+  const { config } = deps;
   return async (req: Request, res: Response, next: NextFunction): Promise<void> => {
     req.user = undefined;
     const state = sessionState(res);
@@ -73,7 +57,7 @@ export function sessionMiddleware(deps: AppDeps) {
     const signed = verifySessionToken(config, token, { ignoreExpiration: true });
     if (signed) state.presentedSessionId = signed.jti;
     const claims = signed && verifySessionToken(config, token);
-    const user = claims ? await loadSessionUser(sequelize, Number(claims.sub)) : undefined;
+    const user = claims ? await loadSessionUser(Number(claims.sub)) : undefined;
     if (!claims || !user || user.disabled || user.sessionGeneration !== claims.gen) {
       clearSessionCookie(res, config);
       return next();

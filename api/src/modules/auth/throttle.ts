@@ -8,10 +8,17 @@ import type { NextFunction, Request, Response } from 'express';
 import { ipKeyGenerator, rateLimit, type ClientRateLimitInfo, type Options, type Store } from 'express-rate-limit';
 import { createHash } from 'node:crypto';
 import { QueryTypes, type Sequelize } from 'sequelize';
-import type { AppDeps } from '../../app';
+import type { AppDeps } from '../../deps';
 import { AppError } from '../../errors';
 
-/** express-rate-limit store on the rate_limits table: fixed window per key. */
+type ThrottleDeps = Pick<AppDeps, 'config' | 'sequelize'>;
+
+/**
+ * express-rate-limit store on the rate_limits table: fixed window per key. Raw SQL on purpose: the
+ * counter is one atomic upsert per attempt (INSERT ... ON DUPLICATE KEY UPDATE with the window
+ * reset in the same statement), on the sign-in path that a flood hits hardest; a model
+ * findOrCreate + increment would take several round trips and race between replicas.
+ */
 export class SqlRateLimitStore implements Store {
   localKeys = false;
   private windowMs = 60_000;
@@ -88,7 +95,7 @@ function retryMessage(what: string, resetTime: Date | undefined): { text: string
   return { text: `Too many ${what} from here. Try again ${when}${at}.`, seconds };
 }
 
-function limiter(deps: AppDeps, name: string, what: string, max: number, keyGenerator: (req: Request) => string, skipSuccessfulRequests: boolean) {
+function limiter(deps: ThrottleDeps, name: string, what: string, max: number, keyGenerator: (req: Request) => string, skipSuccessfulRequests: boolean) {
   const property = `rateLimit_${name.replace(/[^a-z]/gi, '_')}`;
   return rateLimit({
     windowMs: deps.config.RW_SIGNIN_WINDOW_MINUTES * 60_000,
@@ -111,7 +118,7 @@ function limiter(deps: AppDeps, name: string, what: string, max: number, keyGene
   });
 }
 
-export function signInLimiters(deps: AppDeps) {
+export function signInLimiters(deps: ThrottleDeps) {
   const { config } = deps;
   return [
     limiter(deps, 'signin-addr', 'sign-in attempts', config.RW_SIGNIN_MAX_PER_ADDRESS, addressKey, false),
@@ -120,6 +127,6 @@ export function signInLimiters(deps: AppDeps) {
 }
 
 /** Per-address limit for the other anonymous forms (register, password reset). */
-export function anonymousFormLimiter(deps: AppDeps, name: string, what: string) {
+export function anonymousFormLimiter(deps: ThrottleDeps, name: string, what: string) {
   return limiter(deps, name, what, deps.config.RW_SIGNIN_MAX_PER_ADDRESS, addressKey, false);
 }

@@ -1,7 +1,7 @@
 // /api/board: the Bench board for technicians and admins.
 import { Router } from 'express';
-import type { Sequelize } from 'sequelize';
 import { z } from 'zod';
+import type { AppDeps } from '../../deps';
 import { parseInput } from '../../errors';
 import { requireRole } from '../auth/guards';
 import { createBoardReader } from './board.service';
@@ -19,7 +19,7 @@ const boardQuerySchema = z.object({
     .transform((v) => (v ? v : undefined)),
 });
 
-export function createBoardRouter(deps: { sequelize: Sequelize }): Router {
+export function createBoardRouter(deps: Pick<AppDeps, 'sequelize'>): Router {
   const router = Router();
   const readBoard = createBoardReader(deps.sequelize);
 

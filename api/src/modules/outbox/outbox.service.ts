@@ -3,17 +3,21 @@
 import type { Transaction } from 'sequelize';
 import { Outbox } from './outbox.model';
 
-export interface MailToQueue {
+/** What a mail template returns (tickets/ticket-mails.ts, auth/auth-mails.ts). */
+export interface MailContent {
+  subject: string;
+  text: string;
+}
+
+export interface MailToQueue extends MailContent {
   /** What the mail is about, e.g. 'ticket_opened', 'ticket_moved', 'password_reset'. */
   kind: string;
   to: string;
-  subject: string;
-  text: string;
   ticketId?: number | null;
 }
 
-/** Writes one pending outbox row in `transaction` and returns its id. */
-export async function enqueueMail(transaction: Transaction, mail: MailToQueue): Promise<number> {
+/** Writes one pending outbox row in `transaction`, due at `now` (the caller's clock), and returns its id. */
+export async function enqueueMail(transaction: Transaction, mail: MailToQueue, now: Date = new Date()): Promise<number> {
   const row = await Outbox.create(
     {
       kind: mail.kind,
@@ -21,7 +25,8 @@ export async function enqueueMail(transaction: Transaction, mail: MailToQueue): 
       subject: mail.subject.slice(0, 200),
       textBody: mail.text,
       ticketId: mail.ticketId ?? null,
-      nextAttemptAt: new Date(),
+      nextAttemptAt: now,
+      createdAt: now,
       lockedUntil: null,
       lastError: null,
       sentAt: null,

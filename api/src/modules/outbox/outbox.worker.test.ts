@@ -1,6 +1,8 @@
 // The outbox worker against a real SMTP server (maildev, in-process on spare ports) and the real
 // MariaDB: mail queued by a ticket move is delivered with its outbox Message-ID; during an SMTP
 // outage the move still succeeds and the mail arrives once the server is back, exactly once.
+// Time is a test clock shared by the app and the worker: the back-off is waited out by moving the
+// clock, not by sleeping.
 import { after, before, beforeEach, describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { mkdtempSync, rmSync } from 'node:fs';
@@ -8,15 +10,16 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { MailDev } from 'maildev';
 import { QueryTypes } from 'sequelize';
-import { createUser, setupTestApp, signIn, truncateAll, type TestApp, type TestClient } from '../../../test/helpers';
+import { createTestClock, createUser, setClubName, setupTestApp, signIn, truncateAll, type TestApp, type TestClient, type TestClock } from '../../../test/helpers';
 import { enqueueMail } from './outbox.service';
-import { outboxMessageId, retryDelayMs, startOutboxWorker, type OutboxWorkerOptions } from './outbox.worker';
+import { mailSender, outboxMessageId, retryDelayMs, startOutboxWorker, type OutboxWorkerOptions } from './outbox.worker';
 
 const SMTP_PORT = 1125;
 const WEB_PORT = 1180;
 const PW = 'correct horse battery';
 
 let t: TestApp;
+let clock: TestClock;
 let member: TestClient, tech: TestClient;
 const mailDirs: string[] = [];
 
@@ -26,20 +29,23 @@ function newMailDev(): MailDev {
   return new MailDev({ smtp: SMTP_PORT, web: WEB_PORT, ip: '127.0.0.1', webIp: '127.0.0.1', silent: true, mailDirectory: dir });
 }
 
-type Mail = { subject: string; to: { address: string }[]; headers: Record<string, string>; text: string };
+type Mail = { subject: string; from: { address: string; name: string }[]; to: { address: string }[]; headers: Record<string, string>; text: string };
 async function inbox(): Promise<Mail[]> {
   const res = await fetch(`http://127.0.0.1:${WEB_PORT}/api/email`);
   assert.equal(res.status, 200);
   return (await res.json()) as Mail[];
 }
 
-function worker(options: OutboxWorkerOptions = {}) {
-  return startOutboxWorker({
-    config: { ...t.config, RW_SMTP_HOST: '127.0.0.1', RW_SMTP_PORT: SMTP_PORT, RW_OUTBOX_INTERVAL_MS: 0 },
-    sequelize: t.sequelize,
-    logger: t.logger,
-    options: { baseDelayMs: 150, maxDelayMs: 1000, smtpTimeoutMs: 3000, ...options },
-  });
+function worker(options: OutboxWorkerOptions = {}, config: Partial<TestApp['config']> = {}) {
+  return startOutboxWorker(
+    {
+      config: { ...t.config, RW_SMTP_HOST: '127.0.0.1', RW_SMTP_PORT: SMTP_PORT, RW_OUTBOX_INTERVAL_MS: 0, ...config },
+      sequelize: t.sequelize,
+      logger: t.logger,
+      clock,
+    },
+    { baseDelayMs: 150, maxDelayMs: 1000, smtpTimeoutMs: 3000, ...options },
+  );
 }
 
 async function outboxRows() {
@@ -48,8 +54,6 @@ async function outboxRows() {
     { type: QueryTypes.SELECT },
   );
 }
-
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 const intake = {
   equipmentKind: 'transceiver',
@@ -62,7 +66,8 @@ const intake = {
 };
 
 before(async () => {
-  t = await setupTestApp();
+  clock = createTestClock();
+  t = await setupTestApp({}, { clock });
 });
 after(async () => {
   await t.close();
@@ -81,7 +86,38 @@ describe('retry back-off', () => {
   });
 });
 
+describe('mail sender', () => {
+  const config = { RW_MAIL_FROM: undefined, RW_PUBLIC_URL: 'http://127.0.0.1:4300' };
+  it('is RW_MAIL_FROM when that is set', () => {
+    assert.equal(mailSender({ ...config, RW_MAIL_FROM: 'Bench <bench@club.example>' }, 'Saltmarsh Amateur Radio Group'), 'Bench <bench@club.example>');
+  });
+  it('is built from the club\'s name otherwise, at bench@ the public host (localhost for an address or a bare name)', () => {
+    assert.deepEqual(mailSender(config, 'Saltmarsh Amateur Radio Group'), { name: 'Saltmarsh Amateur Radio Group repair bench', address: 'bench@localhost' });
+    assert.deepEqual(mailSender({ ...config, RW_PUBLIC_URL: 'https://rigs.saltmarsh.example/' }, 'our club'), { name: 'our club repair bench', address: 'bench@rigs.saltmarsh.example' });
+    assert.equal((mailSender({ ...config, RW_PUBLIC_URL: 'http://[::1]:4300' }, 'x') as { address: string }).address, 'bench@localhost');
+    assert.equal((mailSender({ ...config, RW_PUBLIC_URL: 'http://bench:4300' }, 'x') as { address: string }).address, 'bench@localhost');
+  });
+});
+
 describe('outbox worker', () => {
+  it('sends from the club\'s name in the club settings when RW_MAIL_FROM is not set', async () => {
+    const md = newMailDev();
+    await md.start();
+    const w = worker({}, { RW_MAIL_FROM: undefined, RW_PUBLIC_URL: 'http://127.0.0.1:4300' });
+    try {
+      await setClubName(t.sequelize, 'Saltmarsh Amateur Radio Group');
+      await t.sequelize.transaction((transaction) =>
+        enqueueMail(transaction, { kind: 'test', to: 'perrin@kestrelfen.example', subject: 'Hello', text: 'x' }, clock()),
+      );
+      assert.equal(await w.runOnce(), 1);
+      const [mail] = await inbox();
+      assert.deepEqual(mail.from, [{ address: 'bench@localhost', name: 'Saltmarsh Amateur Radio Group repair bench' }]);
+    } finally {
+      await w.stop();
+      await md.stop();
+    }
+  });
+
   it('delivers queued ticket mail to the SMTP server, each with its outbox Message-ID, once', async () => {
     const md = newMailDev();
     await md.start();
@@ -123,21 +159,22 @@ describe('outbox worker', () => {
       assert.equal(row.attempts, 1);
       assert.match(row.last_error ?? '', /ECONNREFUSED/);
       assert.equal(row.locked_until, null);
-      assert.ok(row.next_attempt_at.getTime() > Date.now() - 50, 'the next try waits for the back-off');
+      assert.ok(row.next_attempt_at.getTime() > clock().getTime() - 50, 'the next try waits for the back-off');
+      assert.equal(row.next_attempt_at.getTime(), clock().getTime() + 150, 'exactly the first back-off (150 ms) after now');
       assert.equal(await w.runOnce(), 0, 'not due yet');
       assert.equal((await outboxRows())[0].attempts, 1);
 
-      await sleep(200);
+      clock.advance(200);
       assert.equal(await w.runOnce(), 0);
       [row] = await outboxRows();
       assert.equal(row.attempts, 2, 'second failed try');
 
       md = newMailDev();
       await md.start();
-      await sleep(350); // the back-off after two failures is 2 × 150 ms
+      clock.advance(350); // the back-off after two failures is 2 × 150 ms
       assert.equal(await w.runOnce(), 1);
       assert.equal(await w.runOnce(), 0);
-      await sleep(350);
+      clock.advance(350);
       assert.equal(await w.runOnce(), 0, 'a sent mail is never sent again');
       const mails = await inbox();
       assert.equal(mails.length, 1);
@@ -154,16 +191,16 @@ describe('outbox worker', () => {
     const w = worker({ maxAttempts: 2, baseDelayMs: 1 });
     try {
       await t.sequelize.transaction((transaction) =>
-        enqueueMail(transaction, { kind: 'password_reset', to: 'perrin@kestrelfen.example', subject: 'Reset your password', text: 'x' }),
+        enqueueMail(transaction, { kind: 'password_reset', to: 'perrin@kestrelfen.example', subject: 'Reset your password', text: 'x' }, clock()),
       );
       await w.runOnce();
-      await sleep(10);
+      clock.advance(10);
       await w.runOnce();
       const [row] = await outboxRows();
       assert.equal(row.status, 'failed');
       assert.equal(row.attempts, 2);
       assert.match(row.last_error ?? '', /ECONNREFUSED/);
-      await sleep(10);
+      clock.advance(10);
       assert.equal(await w.runOnce(), 0);
       assert.equal((await outboxRows())[0].attempts, 2, 'a failed mail is not retried');
     } finally {
@@ -179,7 +216,7 @@ describe('outbox worker', () => {
     try {
       await t.sequelize.transaction(async (transaction) => {
         for (let i = 0; i < 12; i++) {
-          await enqueueMail(transaction, { kind: 'test', to: `owner${i}@fenmail.example`, subject: `Mail ${i}`, text: `Mail number ${i}` });
+          await enqueueMail(transaction, { kind: 'test', to: `owner${i}@fenmail.example`, subject: `Mail ${i}`, text: `Mail number ${i}` }, clock());
         }
       });
       let sent = 0;
@@ -201,7 +238,7 @@ describe('outbox worker', () => {
   it('rolls the mail back with the change that caused it', async () => {
     await assert.rejects(
       t.sequelize.transaction(async (transaction) => {
-        await enqueueMail(transaction, { kind: 'test', to: 'perrin@kestrelfen.example', subject: 'Never', text: 'x' });
+        await enqueueMail(transaction, { kind: 'test', to: 'perrin@kestrelfen.example', subject: 'Never', text: 'x' }, clock());
         throw new Error('the change failed');
       }),
       /the change failed/,

@@ -6,10 +6,14 @@
 // after the mail server accepted a mail but before the row is marked sent, the retry is
 // recognisable as the same message. The SMTP timeouts are well inside the lease, so a lease can
 // only expire on a worker that has stopped.
+import { isIP } from 'node:net';
 import nodemailer, { type Transporter } from 'nodemailer';
-import { QueryTypes, Transaction, type Sequelize } from 'sequelize';
+import type Mail from 'nodemailer/lib/mailer';
+import { QueryTypes, Transaction, literal } from 'sequelize';
 import type { Config } from '../../config';
-import type { Logger } from '../../logger';
+import type { AppDeps } from '../../deps';
+import { readClubName } from '../club/club-settings.service';
+import { Outbox } from './outbox.model';
 
 export interface OutboxWorkerOptions {
   /** Milliseconds between sweeps; 0 runs no timer (call runOnce yourself). Default: RW_OUTBOX_INTERVAL_MS. */
@@ -27,12 +31,8 @@ export interface OutboxWorkerOptions {
   smtpTimeoutMs?: number;
 }
 
-export interface OutboxWorkerDeps {
-  config: Pick<Config, 'RW_SMTP_HOST' | 'RW_SMTP_PORT' | 'RW_MAIL_FROM' | 'RW_OUTBOX_INTERVAL_MS'>;
-  sequelize: Sequelize;
-  logger: Logger;
-  options?: OutboxWorkerOptions;
-}
+/** Its clock decides when a mail is due and when a retry may come (tests move it instead of waiting). */
+export type OutboxWorkerDeps = Pick<AppDeps, 'config' | 'sequelize' | 'logger' | 'clock'>;
 
 export interface OutboxWorker {
   /** Stops the timer, waits for a sweep in progress, closes the SMTP transport. */
@@ -60,6 +60,18 @@ export function outboxMessageId(id: number | string): string {
   return `<outbox-${id}@rigwright.local>`;
 }
 
+/**
+ * The sender of every mail: RW_MAIL_FROM when it is set, otherwise "<club name> repair bench" (the
+ * club's name from the club settings) at bench@ the host of RW_PUBLIC_URL (bench@localhost when
+ * that is an IP address or a name without a dot).
+ */
+export function mailSender(config: Pick<Config, 'RW_MAIL_FROM' | 'RW_PUBLIC_URL'>, clubName: string): string | Mail.Address {
+  if (config.RW_MAIL_FROM) return config.RW_MAIL_FROM;
+  const host = new URL(config.RW_PUBLIC_URL).hostname;
+  const domain = host.includes('.') && !isIP(host.replace(/^\[|\]$/g, '')) ? host : 'localhost';
+  return { name: `${clubName} repair bench`, address: `bench@${domain}` };
+}
+
 /** What is kept of an SMTP failure: code and message, one line, no credentials or addresses' bodies. */
 function describeError(err: unknown): string {
   const e = err as { code?: string; responseCode?: number; message?: string };
@@ -69,10 +81,10 @@ function describeError(err: unknown): string {
 
 type ClaimedRow = { id: number | string; to_address: string; subject: string; text_body: string; attempts: number };
 
-export function startOutboxWorker(deps: OutboxWorkerDeps): OutboxWorker {
-  const { config, sequelize, logger } = deps;
-  const opts = { ...OUTBOX_DEFAULTS, ...deps.options };
-  const intervalMs = deps.options?.intervalMs ?? config.RW_OUTBOX_INTERVAL_MS;
+export function startOutboxWorker(deps: OutboxWorkerDeps, options: OutboxWorkerOptions = {}): OutboxWorker {
+  const { config, sequelize, logger, clock } = deps;
+  const opts = { ...OUTBOX_DEFAULTS, ...options };
+  const intervalMs = options.intervalMs ?? config.RW_OUTBOX_INTERVAL_MS;
   const log = logger.child({ component: 'outbox' });
 
   const transport: Transporter = nodemailer.createTransport({
@@ -99,9 +111,11 @@ export function startOutboxWorker(deps: OutboxWorkerDeps): OutboxWorker {
   }
 
   async function claimOnce(): Promise<ClaimedRow[]> {
+    // Raw SQL on purpose: the claim needs FOR UPDATE SKIP LOCKED, which Sequelize's finders do not
+    // offer on MariaDB, and it is the step that two workers race on (see the two-replica test).
     // READ COMMITTED: no gap locks, so SKIP LOCKED lets concurrent claimers take disjoint rows.
     return sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
-      const now = new Date();
+      const now = clock();
       const due = await sequelize.query<{ id: number | string }>(
         "SELECT id FROM outbox WHERE status = 'pending' AND next_attempt_at <= :now " +
           'AND (locked_until IS NULL OR locked_until < :now) ORDER BY next_attempt_at, id LIMIT :limit FOR UPDATE SKIP LOCKED',
@@ -120,10 +134,10 @@ export function startOutboxWorker(deps: OutboxWorkerDeps): OutboxWorker {
     });
   }
 
-  async function deliver(row: ClaimedRow): Promise<boolean> {
+  async function deliver(row: ClaimedRow, from: string | Mail.Address): Promise<boolean> {
     try {
       await transport.sendMail({
-        from: config.RW_MAIL_FROM,
+        from,
         to: row.to_address,
         subject: row.subject,
         text: row.text_body,
@@ -132,18 +146,17 @@ export function startOutboxWorker(deps: OutboxWorkerDeps): OutboxWorker {
     } catch (err) {
       const attempts = row.attempts + 1;
       const failed = attempts >= opts.maxAttempts;
-      const next = new Date(Date.now() + retryDelayMs(attempts, opts.baseDelayMs, opts.maxDelayMs));
-      await sequelize.query(
-        'UPDATE outbox SET attempts = :attempts, status = :status, next_attempt_at = :next, locked_until = NULL, ' +
-          'last_error = :error WHERE id = :id',
-        { replacements: { attempts, status: failed ? 'failed' : 'pending', next, error: describeError(err), id: row.id } },
+      const next = new Date(clock().getTime() + retryDelayMs(attempts, opts.baseDelayMs, opts.maxDelayMs));
+      await Outbox.update(
+        { attempts, status: failed ? 'failed' : 'pending', nextAttemptAt: next, lockedUntil: null, lastError: describeError(err) },
+        { where: { id: row.id } },
       );
       log[failed ? 'error' : 'warn']({ outboxId: Number(row.id), attempts, failed, error: describeError(err) }, 'mail not sent');
       return false;
     }
-    await sequelize.query(
-      "UPDATE outbox SET status = 'sent', sent_at = :now, attempts = attempts + 1, locked_until = NULL, last_error = NULL WHERE id = :id",
-      { replacements: { now: new Date(), id: row.id } },
+    await Outbox.update(
+      { status: 'sent', sentAt: clock(), attempts: literal('attempts + 1'), lockedUntil: null, lastError: null },
+      { where: { id: row.id } },
     );
     log.info({ outboxId: Number(row.id) }, 'mail sent');
     return true;
@@ -155,9 +168,12 @@ export function startOutboxWorker(deps: OutboxWorkerDeps): OutboxWorker {
 
   async function sweep(): Promise<number> {
     const rows = await claim();
+    if (rows.length === 0) return 0;
+    // Read per sweep, so a change of the club's name shows in the next mail without a restart.
+    const from = mailSender(config, await readClubName());
     let sent = 0;
     // One at a time: a club's mail volume is small and the server sees one connection per mail.
-    for (const row of rows) if (await deliver(row)) sent++;
+    for (const row of rows) if (await deliver(row, from)) sent++;
     return sent;
   }
 

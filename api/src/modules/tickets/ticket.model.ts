@@ -7,10 +7,12 @@ import {
   type ForeignKey,
   type InferAttributes,
   type InferCreationAttributes,
+  type NonAttribute,
   type Sequelize,
 } from 'sequelize';
 import { EQUIPMENT_KINDS, EVENT_KINDS, type EquipmentKind, type EventKind } from '../../contracts/tickets';
 import { STATES, type TicketState } from '../../domain/workflow';
+import type { User } from '../users/user.model';
 
 export class Ticket extends Model<InferAttributes<Ticket>, InferCreationAttributes<Ticket>> {
   declare id: CreationOptional<number>;
@@ -36,6 +38,11 @@ export class Ticket extends Model<InferAttributes<Ticket>, InferCreationAttribut
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
+
+  /** Loaded with `include: [{ association: 'technician' }]` (associations: api/src/models.ts). */
+  declare technician?: NonAttribute<User | null>;
+  /** Loaded with `include: [{ association: 'events' }]`. */
+  declare events?: NonAttribute<TicketEvent[]>;
 }
 
 export class TicketEvent extends Model<InferAttributes<TicketEvent>, InferCreationAttributes<TicketEvent>> {
@@ -47,6 +54,9 @@ export class TicketEvent extends Model<InferAttributes<TicketEvent>, InferCreati
   declare toState: TicketState | null;
   declare note: string | null;
   declare createdAt: CreationOptional<Date>;
+
+  /** Loaded with `include: [{ association: 'actor' }]`. */
+  declare actor?: NonAttribute<User | null>;
 }
 
 /** JSON columns come back as text from MariaDB (it stores JSON as LONGTEXT); parse them once here. */

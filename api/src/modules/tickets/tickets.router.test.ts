@@ -3,10 +3,12 @@
 // section 3 (our own design); the guard texts come from api/src/domain/workflow.ts.
 import { after, before, beforeEach, describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { QueryTypes } from 'sequelize';
-import { anonymous, createUser, setupTestApp, signIn, tableCounts, tableSnapshot, truncateAll, type TestApp, type TestClient } from '../../../test/helpers';
+import { OptimisticLockError, QueryTypes } from 'sequelize';
+import { anonymous, createTestClock, createUser, setClubName, setupTestApp, signIn, tableCounts, tableSnapshot, truncateAll, type TestApp, type TestClient } from '../../../test/helpers';
+import { createApp } from '../../app';
 import { STATES } from '../../domain/workflow';
 import { formatTag, parseTag } from './tag';
+import { Ticket } from './ticket.model';
 
 const PW = 'correct horse battery';
 
@@ -349,5 +351,66 @@ describe('POST /api/tickets/:tag/moves', () => {
     const tk = await openOne();
     const res = await move(admin, tk.tag, { to: 'diagnosis', version: 0 }).expect(200);
     assert.equal(res.body.technicianName, 'Hester Vane');
+  });
+
+  it('lets exactly one of eight concurrent moves of one version win, with one event and one mail', async () => {
+    const tk = await openOne();
+    const mailsBefore = (await tableCounts(t.sequelize)).outbox;
+    const answers = await Promise.all(
+      Array.from({ length: 8 }, (_, i) => move(i % 2 ? tech : tech2, tk.tag, { to: 'diagnosis', version: 0 })),
+    );
+    assert.deepEqual(answers.map((a) => a.status).sort(), [200, 409, 409, 409, 409, 409, 409, 409]);
+    assert.ok(answers.filter((a) => a.status === 409).every((a) => a.body.error.code === 'stale_version'));
+    const [moved] = await rows<{ n: number }>("SELECT COUNT(*) AS n FROM ticket_events WHERE kind = 'moved'");
+    assert.equal(Number(moved.n), 1);
+    assert.equal((await tableCounts(t.sequelize)).outbox, mailsBefore + 1);
+    const [row] = await rows<{ version: number }>('SELECT version FROM tickets');
+    assert.equal(row.version, 1);
+  });
+
+  it('the ticket model refuses to save a stale copy over a newer one (version: true, OptimisticLockError)', async () => {
+    const tk = await openOne();
+    const first = (await Ticket.findByPk(tk.id))!;
+    const second = (await Ticket.findByPk(tk.id))!;
+    first.partsOnOrder = true;
+    await first.save();
+    assert.equal(first.version, 1);
+    second.awaitingApproval = true;
+    await assert.rejects(second.save(), OptimisticLockError);
+    const [row] = await rows<{ version: number; parts_on_order: number; awaiting_approval: number }>(
+      'SELECT version, parts_on_order, awaiting_approval FROM tickets',
+    );
+    assert.deepEqual({ ...row, parts_on_order: Boolean(row.parts_on_order), awaiting_approval: Boolean(row.awaiting_approval) }, {
+      version: 1,
+      parts_on_order: true,
+      awaiting_approval: false,
+    });
+  });
+});
+
+describe('time and the club in what tickets store and send', () => {
+  it('stamps intake, moves, their events and their mails with the app\'s clock', async () => {
+    const clock = createTestClock(new Date('2026-03-14T18:00:00.000Z'));
+    const app = createApp({ config: t.config, sequelize: t.sequelize, logger: t.logger, clock });
+    const [owner, bench] = await Promise.all([signIn(app, 'perrin@kestrelfen.example', PW), signIn(app, 'tobin@kestrelfen.example', PW)]);
+    const opened = (await owner.post('/api/tickets', intake()).expect(201)).body;
+    assert.deepEqual([opened.createdAt, opened.stateSince, opened.events[0].at], Array(3).fill('2026-03-14T18:00:00.000Z'));
+    clock.advance(5 * 3_600_000);
+    const moved = (await bench.post(`/api/tickets/${opened.tag}/moves`, { to: 'diagnosis', version: 0 }).expect(200)).body;
+    assert.equal(moved.stateSince, '2026-03-14T23:00:00.000Z');
+    assert.deepEqual(moved.events.map((e: { at: string }) => e.at), ['2026-03-14T18:00:00.000Z', '2026-03-14T23:00:00.000Z']);
+    const mails = await rows<{ next_attempt_at: Date }>('SELECT next_attempt_at FROM outbox ORDER BY id');
+    assert.deepEqual(mails.map((m) => m.next_attempt_at.toISOString()), ['2026-03-14T18:00:00.000Z', '2026-03-14T23:00:00.000Z']);
+    const listed = (await bench.get('/api/tickets').expect(200)).body.items[0];
+    assert.deepEqual([listed.createdAt, listed.stateSince], ['2026-03-14T18:00:00.000Z', '2026-03-14T23:00:00.000Z']);
+  });
+
+  it('signs ticket mail with the club\'s name from the club settings', async () => {
+    const mailText = async () => (await rows<{ text_body: string }>('SELECT text_body FROM outbox ORDER BY id DESC LIMIT 1'))[0].text_body;
+    const tk = (await member.post('/api/tickets', intake()).expect(201)).body;
+    assert.match(await mailText(), /\nRigwright, the repair bench of our club$/, 'the migration\'s neutral name when none is set');
+    await setClubName(t.sequelize, 'Saltmarsh Amateur Radio Group');
+    await tech.post(`/api/tickets/${tk.tag}/moves`, { to: 'diagnosis', version: 0 }).expect(200);
+    assert.match(await mailText(), /\nRigwright, the repair bench of Saltmarsh Amateur Radio Group$/);
   });
 });

@@ -1,18 +1,12 @@
 // /api/tickets: thin handlers. Parse at the edge, call the service, send the result.
 import { Router } from 'express';
-import type { Sequelize } from 'sequelize';
-import type { Config } from '../../config';
+import type { AppDeps } from '../../deps';
 import { parseInput } from '../../errors';
 import { currentUser, requireRole, requireSignedIn } from '../auth/guards';
 import { intakeSchema, listQuerySchema, moveSchema } from './tickets.schemas';
 import { getTicketDetail, listTickets, moveTicket, openTicket } from './tickets.service';
 
-export interface TicketsRouterDeps {
-  sequelize: Sequelize;
-  config: Config;
-}
-
-export function createTicketsRouter(deps: TicketsRouterDeps): Router {
+export function createTicketsRouter(deps: Pick<AppDeps, 'sequelize' | 'config' | 'clock'>): Router {
   const router = Router();
   router.use(requireSignedIn);
 
@@ -27,12 +21,12 @@ export function createTicketsRouter(deps: TicketsRouterDeps): Router {
   });
 
   router.get('/:tag', async (req, res) => {
-    res.json(await getTicketDetail(deps, currentUser(req), String(req.params.tag)));
+    res.json(await getTicketDetail(deps, currentUser(req), { tag: String(req.params.tag) }));
   });
 
   router.post('/:tag/moves', requireRole('technician', 'admin'), async (req, res) => {
     const input = parseInput(moveSchema, req.body);
-    res.json(await moveTicket(deps, currentUser(req), String(req.params.tag), input));
+    res.json(await moveTicket(deps, currentUser(req), { tag: String(req.params.tag), ...input }));
   });
 
   return router;

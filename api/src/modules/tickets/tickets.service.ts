@@ -1,25 +1,25 @@
 // Ticket rules: intake, lists, detail with its timeline, and moves between lanes.
 // Services never see req/res: they take the signed-in person and parsed input, hold the
 // transactions, throw typed errors and return plain objects (the API's DTOs).
-import { QueryTypes, type Sequelize } from 'sequelize';
-import type { Config } from '../../config';
+import { Op, OptimisticLockError, type FindOptions, type InferAttributes, type Order, type WhereOptions } from 'sequelize';
+import type { AppDeps } from '../../deps';
 import { ConflictError, ForbiddenError, NotFoundError, RuleError } from '../../errors';
 import { checkMove, isState, STATE_LABELS, STATES, type MoveFacts, type TicketState } from '../../domain/workflow';
 import { hasRole } from '../auth/guards';
 import type { SessionUser } from '../auth/session-user';
 import { enqueueMail } from '../outbox/outbox.service';
 import { bumpBoardRevision } from '../board/board-revision';
+import { readClubName } from '../club/club-settings.service';
+import { User } from '../users/user.model';
 import type { Page } from '../../contracts/lists';
-import type { EquipmentKind, EventKind, MoveOption, TicketDetail, TicketEventDto, TicketRow } from '../../contracts/tickets';
+import type { MoveOption, TicketDetail, TicketEventDto, TicketRow } from '../../contracts/tickets';
 import { Ticket, TicketEvent } from './ticket.model';
 import { formatTag, parseTag } from './tag';
-import { ticketSearchSql } from './ticket-search';
+import { ticketMovedMail, ticketOpenedMail } from './ticket-mails';
+import { ticketSearchWhere } from './ticket-search';
 import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
 
-export interface TicketsDeps {
-  sequelize: Sequelize;
-  config: Pick<Config, 'RW_PUBLIC_URL'>;
-}
+export type TicketsDeps = Pick<AppDeps, 'sequelize' | 'config' | 'clock'>;
 
 export const STALE_VERSION_MESSAGE = 'Someone else moved this ticket a moment ago; the board has been refreshed.';
 
@@ -56,7 +56,7 @@ export function moveFactsOf(ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'a
 
 /** Hand in equipment: the ticket, its 'opened' event and (if asked for) the mail, in one transaction. */
 export async function openTicket(deps: TicketsDeps, user: SessionUser, input: IntakeInput): Promise<TicketDetail> {
-  const { sequelize } = deps;
+  const { sequelize, clock } = deps;
   if (input.owner && !movesTickets(user)) {
     // A member's ticket is always their own; only the bench hands in for someone else.
     throw new ForbiddenError('Only technicians can hand equipment in for someone else.', 'owner_not_allowed');
@@ -65,13 +65,9 @@ export async function openTicket(deps: TicketsDeps, user: SessionUser, input: In
     let owner: Pick<Ticket, 'ownerUserId' | 'ownerName' | 'ownerEmail' | 'ownerPhone' | 'ownerCallSign'>;
     if (input.owner) {
       // Someone handed in at the bench: link the ticket to their account if they have one.
-      const accounts = await sequelize.query<{ id: number }>('SELECT id FROM users WHERE email = :email LIMIT 1', {
-        replacements: { email: input.owner.email },
-        type: QueryTypes.SELECT,
-        transaction,
-      });
+      const account = await User.findOne({ where: { email: input.owner.email }, attributes: ['id'], transaction });
       owner = {
-        ownerUserId: accounts[0]?.id ?? null,
+        ownerUserId: account?.id ?? null,
         ownerName: input.owner.name,
         ownerEmail: input.owner.email,
         ownerPhone: input.owner.phone ?? null,
@@ -86,7 +82,7 @@ export async function openTicket(deps: TicketsDeps, user: SessionUser, input: In
         ownerCallSign: user.callSign,
       };
     }
-    const now = new Date();
+    const now = clock();
     const ticket = await Ticket.create(
       {
         ...owner,
@@ -102,111 +98,75 @@ export async function openTicket(deps: TicketsDeps, user: SessionUser, input: In
         state: 'intake',
         stateSince: now,
         technicianId: null,
+        createdAt: now,
       },
       { transaction },
     );
     await TicketEvent.create(
-      { ticketId: ticket.id, actorId: user.id, kind: 'opened', fromState: null, toState: 'intake', note: null },
+      { ticketId: ticket.id, actorId: user.id, kind: 'opened', fromState: null, toState: 'intake', note: null, createdAt: now },
       { transaction },
     );
     if (ticket.notifyByEmail) {
       const tag = formatTag(ticket.id);
-      await enqueueMail(transaction, {
-        kind: 'ticket_opened',
-        to: ticket.ownerEmail,
-        ticketId: ticket.id,
-        subject: `Ticket ${tag} opened`,
-        text: [
-          `Hello ${ticket.ownerName},`,
-          '',
-          `Your ${ticket.makeModel} has been handed in at the bench as ticket ${tag}.`,
-          `Fault as reported: ${ticket.faultReported}`,
-          '',
-          `Quote ${tag} when you ask about it. You will get an e-mail each time it moves on.`,
-          `Follow it here: ${ticketLink(deps.config, tag)}`,
-          '',
-          'Rigwright, the repair bench of Kestrel Fen Radio Society',
-        ].join('\n'),
+      const mail = ticketOpenedMail({
+        clubName: await readClubName(transaction),
+        ownerName: ticket.ownerName,
+        makeModel: ticket.makeModel,
+        tag,
+        link: ticketLink(deps.config, tag),
+        faultReported: ticket.faultReported,
       });
+      await enqueueMail(transaction, { kind: 'ticket_opened', to: ticket.ownerEmail, ticketId: ticket.id, ...mail }, now);
     }
     await bumpBoardRevision(sequelize, transaction);
     return ticket.id;
   });
-  return getTicketDetail(deps, user, formatTag(id));
+  return getTicketDetail(deps, user, { tag: formatTag(id) });
 }
 
-const SORT_COLUMNS: Record<ListQuery['sort'], string> = {
-  tag: 't.id',
-  createdAt: 't.created_at',
-  state: 't.state',
-  stateSince: 't.state_since',
-};
-
-type RowRecord = {
-  id: number;
-  equipment_kind: EquipmentKind;
-  make_model: string;
-  owner_name: string;
-  state: TicketState;
-  state_since: Date;
-  created_at: Date;
+const SORT_ATTRIBUTES: Record<ListQuery['sort'], keyof InferAttributes<Ticket>> = {
+  tag: 'id',
+  createdAt: 'createdAt',
+  state: 'state',
+  stateSince: 'stateSince',
 };
 
 /** Paged, sorted, searchable list; members see only their own tickets. */
 export async function listTickets(deps: TicketsDeps, user: SessionUser, query: ListQuery): Promise<Page<TicketRow>> {
-  const where: string[] = [];
-  const replacements: Record<string, unknown> = {};
-  if (!seesAllTickets(user)) {
-    where.push('t.owner_user_id = :ownerId');
-    replacements.ownerId = user.id;
-  }
-  if (query.state) {
-    where.push('t.state = :state');
-    replacements.state = query.state;
-  }
-  if (query.q) {
-    const search = ticketSearchSql(query.q);
-    where.push(search.sql);
-    Object.assign(replacements, search.replacements);
-  }
-  const whereSql = where.length ? `WHERE ${where.join(' AND ')}` : '';
+  const where: WhereOptions<Ticket>[] = [];
+  if (!seesAllTickets(user)) where.push({ ownerUserId: user.id });
+  if (query.state) where.push({ state: query.state });
+  if (query.q) where.push(ticketSearchWhere(query.q));
   const dir = query.dir === 'asc' ? 'ASC' : 'DESC';
-  const order = `${SORT_COLUMNS[query.sort]} ${dir}, t.id ${dir}`;
-  const [countRows, rows] = await Promise.all([
-    deps.sequelize.query<{ total: number | bigint }>(`SELECT COUNT(*) AS total FROM tickets t ${whereSql}`, {
-      replacements,
-      type: QueryTypes.SELECT,
-    }),
-    deps.sequelize.query<RowRecord>(
-      'SELECT t.id, t.equipment_kind, t.make_model, t.owner_name, t.state, t.state_since, t.created_at ' +
-        `FROM tickets t ${whereSql} ORDER BY ${order} LIMIT :limit OFFSET :offset`,
-      {
-        replacements: { ...replacements, limit: query.pageSize, offset: (query.page - 1) * query.pageSize },
-        type: QueryTypes.SELECT,
-      },
-    ),
-  ]);
+  const order: Order = [[SORT_ATTRIBUTES[query.sort], dir], ['id', dir]];
+  const { rows, count } = await Ticket.findAndCountAll({
+    attributes: ['id', 'equipmentKind', 'makeModel', 'ownerName', 'state', 'stateSince', 'createdAt'],
+    where: { [Op.and]: where },
+    order,
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
+  });
   return {
     items: rows.map((r) => ({
       id: r.id,
       tag: formatTag(r.id),
-      equipmentKind: r.equipment_kind,
-      makeModel: r.make_model,
-      ownerName: r.owner_name,
+      equipmentKind: r.equipmentKind,
+      makeModel: r.makeModel,
+      ownerName: r.ownerName,
       state: r.state,
-      stateSince: iso(r.state_since),
-      createdAt: iso(r.created_at),
+      stateSince: iso(r.stateSince),
+      createdAt: iso(r.createdAt),
     })),
-    total: Number(countRows[0]?.total ?? 0),
+    total: count,
     page: query.page,
     pageSize: query.pageSize,
   };
 }
 
 /** Loads a ticket the person may see, or answers 404 (another member's ticket is "not found", not "forbidden"). */
-async function findVisibleTicket(deps: TicketsDeps, user: SessionUser, tag: string): Promise<Ticket> {
+async function findVisibleTicket(user: SessionUser, tag: string, options: Pick<FindOptions<Ticket>, 'include' | 'order'> = {}): Promise<Ticket> {
   const id = parseTag(tag);
-  const ticket = id ? await Ticket.findByPk(id) : null;
+  const ticket = id ? await Ticket.findByPk(id, options) : null;
   if (!ticket || (!seesAllTickets(user) && ticket.ownerUserId !== user.id)) {
     throw new NotFoundError(`There is no ticket ${tag.slice(0, 20)} that you can see.`, 'ticket_not_found');
   }
@@ -229,38 +189,30 @@ export function moveOptions(user: SessionUser, ticket: Pick<Ticket, 'state' | 'r
   });
 }
 
-export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, tag: string): Promise<TicketDetail> {
-  const ticket = await findVisibleTicket(deps, user, tag);
-  const [events, technician] = await Promise.all([
-    deps.sequelize.query<{
-      id: number | string;
-      created_at: Date;
-      actor_name: string | null;
-      kind: EventKind;
-      from_state: TicketState | null;
-      to_state: TicketState | null;
-      note: string | null;
-    }>(
-      'SELECT e.id, e.created_at, u.display_name AS actor_name, e.kind, e.from_state, e.to_state, e.note ' +
-        'FROM ticket_events e LEFT JOIN users u ON u.id = e.actor_id WHERE e.ticket_id = :id ORDER BY e.created_at, e.id',
-      { replacements: { id: ticket.id }, type: QueryTypes.SELECT },
-    ),
-    ticket.technicianId
-      ? deps.sequelize.query<{ display_name: string }>('SELECT display_name FROM users WHERE id = :id', {
-          replacements: { id: ticket.technicianId },
-          type: QueryTypes.SELECT,
-        })
-      : Promise.resolve([]),
-  ]);
-  return toDetail(ticket, technician[0]?.display_name ?? null, events.map((e) => ({
-    id: Number(e.id),
-    at: iso(e.created_at),
-    actorName: e.actor_name,
-    kind: e.kind,
-    fromState: e.from_state,
-    toState: e.to_state,
-    note: e.note,
-  })), moveOptions(user, ticket));
+/** The ticket with its technician and its timeline (each event with who did it), through the model's associations. */
+export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, input: { tag: string }): Promise<TicketDetail> {
+  const ticket = await findVisibleTicket(user, input.tag, {
+    include: [
+      { association: 'technician', attributes: ['id', 'displayName'] },
+      { association: 'events', include: [{ association: 'actor', attributes: ['id', 'displayName'] }] },
+    ],
+    order: [
+      ['events', 'createdAt', 'ASC'],
+      ['events', 'id', 'ASC'],
+    ],
+  });
+  const events = (ticket.events ?? []).map(
+    (e): TicketEventDto => ({
+      id: Number(e.id),
+      at: iso(e.createdAt),
+      actorName: e.actor?.displayName ?? null,
+      kind: e.kind,
+      fromState: e.fromState,
+      toState: e.toState,
+      note: e.note,
+    }),
+  );
+  return toDetail(ticket, ticket.technician?.displayName ?? null, events, moveOptions(user, ticket));
 }
 
 function toDetail(ticket: Ticket, technicianName: string | null, events: TicketEventDto[], moves: MoveOption[]): TicketDetail {
@@ -297,11 +249,11 @@ function toDetail(ticket: Ticket, technicianName: string | null, events: TicketE
  * state, the version the mover saw (409 when stale) and the workflow guard (422 with the reason).
  * The state change, its 'moved' event, the owner's mail and the board revision commit together.
  */
-export async function moveTicket(deps: TicketsDeps, user: SessionUser, tag: string, input: MoveInput): Promise<TicketDetail> {
-  const { sequelize } = deps;
+export async function moveTicket(deps: TicketsDeps, user: SessionUser, input: { tag: string } & MoveInput): Promise<TicketDetail> {
+  const { sequelize, clock } = deps;
   if (!movesTickets(user)) throw new ForbiddenError('Only technicians move tickets on the Bench board.');
   if (!isState(input.to)) throw new RuleError('move_not_allowed', 'That is not a lane of the Bench board.');
-  const ticket = await findVisibleTicket(deps, user, tag);
+  const ticket = await findVisibleTicket(user, input.tag);
 
   await sequelize.transaction(async (transaction) => {
     const current = await Ticket.findByPk(ticket.id, { transaction });
@@ -312,44 +264,38 @@ export async function moveTicket(deps: TicketsDeps, user: SessionUser, tag: stri
     if (!check.allowed) throw new RuleError('move_not_allowed', check.reason);
 
     const from: TicketState = current.state;
-    const now = new Date();
-    // A static Model.update does not check the version, so the UPDATE names it and the affected
-    // row count decides: of two movers who saw one version, the second matches no row.
-    const [, affected] = await sequelize.query(
-      'UPDATE tickets SET state = :to, state_since = :now, updated_at = :now, version = version + 1, ' +
-        'technician_id = CASE WHEN technician_id IS NULL AND :fromIntake THEN :moverId ELSE technician_id END ' +
-        'WHERE id = :id AND version = :version',
-      {
-        replacements: { to: input.to, now, fromIntake: from === 'intake', moverId: user.id, id: current.id, version: input.version },
-        type: QueryTypes.UPDATE,
-        transaction,
-      },
-    );
-    if (Number(affected) !== 1) throw new ConflictError('stale_version', STALE_VERSION_MESSAGE);
-
+    const now = clock();
+    current.state = input.to;
+    current.stateSince = now;
+    // The technician who takes a ticket out of intake becomes its technician.
+    if (current.technicianId === null && from === 'intake') current.technicianId = user.id;
+    try {
+      // The model has `version: true`: save() updates WHERE id AND version = the version read
+      // above (and sets version + 1). Of two movers who saw one version, the second matches no
+      // row and Sequelize throws OptimisticLockError.
+      await current.save({ transaction });
+    } catch (err) {
+      if (err instanceof OptimisticLockError) throw new ConflictError('stale_version', STALE_VERSION_MESSAGE);
+      throw err;
+    }
     await TicketEvent.create(
-      { ticketId: current.id, actorId: user.id, kind: 'moved', fromState: from, toState: input.to, note: input.note ?? null },
+      { ticketId: current.id, actorId: user.id, kind: 'moved', fromState: from, toState: input.to, note: input.note ?? null, createdAt: now },
       { transaction },
     );
     if (current.notifyByEmail) {
-      const tagText = formatTag(current.id);
-      const lane = STATE_LABELS[input.to];
-      await enqueueMail(transaction, {
-        kind: 'ticket_moved',
-        to: current.ownerEmail,
-        ticketId: current.id,
-        subject: `Your ${current.makeModel} (${tagText}) has moved to ${lane}`,
-        text: [
-          `Hello ${current.ownerName},`,
-          '',
-          `Your ${current.makeModel} (ticket ${tagText}) has moved from ${STATE_LABELS[from]} to ${lane}.`,
-          `Follow it here: ${ticketLink(deps.config, tagText)}`,
-          '',
-          'Rigwright, the repair bench of Kestrel Fen Radio Society',
-        ].join('\n'),
+      const tag = formatTag(current.id);
+      const mail = ticketMovedMail({
+        clubName: await readClubName(transaction),
+        ownerName: current.ownerName,
+        makeModel: current.makeModel,
+        tag,
+        link: ticketLink(deps.config, tag),
+        from: STATE_LABELS[from],
+        to: STATE_LABELS[input.to],
       });
+      await enqueueMail(transaction, { kind: 'ticket_moved', to: current.ownerEmail, ticketId: current.id, ...mail }, now);
     }
     await bumpBoardRevision(sequelize, transaction);
   });
-  return getTicketDetail(deps, user, formatTag(ticket.id));
+  return getTicketDetail(deps, user, { tag: formatTag(ticket.id) });
 }

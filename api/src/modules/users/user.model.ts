@@ -83,9 +83,4 @@ export function initUserModels(sequelize: Sequelize): void {
     },
     { sequelize, tableName: 'password_resets', modelName: 'PasswordReset', underscored: true, updatedAt: false },
   );
-
-  User.hasMany(UserRole, { as: 'roleRows', foreignKey: 'userId' });
-  UserRole.belongsTo(User, { foreignKey: 'userId' });
-  User.hasMany(PasswordReset, { foreignKey: 'userId' });
-  PasswordReset.belongsTo(User, { foreignKey: 'userId' });
 }

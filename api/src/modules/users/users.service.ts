@@ -1,12 +1,14 @@
 // Accounts: creation (used by registration and by admins), the admin list and changes.
 // Role changes and disabling bump the person's session generation, which ends their sessions.
-import { Op, UniqueConstraintError, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
+import { Op, UniqueConstraintError, type Transaction, type WhereOptions } from 'sequelize';
 import type { Config } from '../../config';
+import type { AppDeps } from '../../deps';
 import { ConflictError, NotFoundError, ValidationError } from '../../errors';
 import { argon2ParamsFromConfig, hashPassword, passwordProblem } from '../auth/passwords';
 import type { Role, User as PublicUser, UserRow } from '../../contracts/accounts';
 import type { Page } from '../../contracts/lists';
 import type { SessionUser } from '../auth/session-user';
+import { readClubName } from '../club/club-settings.service';
 import { User, UserRole } from './user.model';
 import type { ListUsersQuery, PatchUserBody } from './users.schemas';
 
@@ -27,15 +29,24 @@ export interface NewAccount {
   password: string;
 }
 
-/** Checks the password policy with the person's own details; throws 400 on `field`. */
-export function assertPasswordAcceptable(password: string, context: { email?: string; displayName?: string; callSign?: string | null }, field = 'password'): void {
-  const problem = passwordProblem(password, context);
+/**
+ * Checks the password policy with the person's own details and the club's name (read from the
+ * club settings in `transaction`); throws 400 on `field`.
+ */
+export async function assertPasswordAcceptable(
+  password: string,
+  person: { email?: string; displayName?: string; callSign?: string | null },
+  field = 'password',
+  transaction?: Transaction,
+): Promise<void> {
+  const { email, displayName, callSign } = person;
+  const problem = passwordProblem(password, { email, displayName, callSign, clubName: await readClubName(transaction) });
   if (problem) throw new ValidationError(problem, { [field]: problem });
 }
 
 /** Creates an account with its roles in the transaction; 409 email_taken when the address is in use. */
 export async function createAccount(config: Config, account: NewAccount, transaction: Transaction): Promise<User> {
-  assertPasswordAcceptable(account.password, account);
+  await assertPasswordAcceptable(account.password, account, 'password', transaction);
   const passwordHash = await hashPassword(account.password, argon2ParamsFromConfig(config));
   try {
     const user = await User.create(
@@ -71,7 +82,10 @@ function escapeLike(s: string): string {
   return s.replace(/[\\%_]/g, (c) => `\\${c}`);
 }
 
-export async function listUsers(query: ListUsersQuery): Promise<Page<UserRow>> {
+export type UsersDeps = Pick<AppDeps, 'config' | 'sequelize'>;
+
+/** The admin's accounts list (the router lets only admins in). */
+export async function listUsers(_deps: UsersDeps, _actor: SessionUser, query: ListUsersQuery): Promise<Page<UserRow>> {
   const where: WhereOptions<User> = query.q
     ? {
         [Op.or]: [
@@ -97,8 +111,8 @@ export async function listUsers(query: ListUsersQuery): Promise<Page<UserRow>> {
   return { items: rows.map(toUserRow), total: count, page: query.page, pageSize: query.pageSize };
 }
 
-export async function createUserByAdmin(sequelize: Sequelize, config: Config, body: NewAccount): Promise<UserRow> {
-  const user = await sequelize.transaction((transaction) => createAccount(config, body, transaction));
+export async function createUserByAdmin(deps: UsersDeps, _actor: SessionUser, body: NewAccount): Promise<UserRow> {
+  const user = await deps.sequelize.transaction((transaction) => createAccount(deps.config, body, transaction));
   return toUserRow(user);
 }
 
@@ -107,8 +121,9 @@ export async function createUserByAdmin(sequelize: Sequelize, config: Config, bo
  * ends that person's sessions. An admin cannot take their own admin role or disable themselves
  * (so the club never locks itself out by accident).
  */
-export async function patchUser(sequelize: Sequelize, actor: SessionUser, id: number, patch: PatchUserBody): Promise<UserRow> {
-  return sequelize.transaction(async (transaction) => {
+export async function patchUser(deps: UsersDeps, actor: SessionUser, input: { id: number } & PatchUserBody): Promise<UserRow> {
+  const { id, ...patch } = input;
+  return deps.sequelize.transaction(async (transaction) => {
     const user = await findUser(id, transaction, true);
     if (!user) throw new NotFoundError('No such account.', 'user_not_found');
 

@@ -1,0 +1,52 @@
+// The mails a ticket sends its owner: plain functions from facts to { subject, text }, so the
+// wording lives in one place and is tested without a database (ticket-mails.test.ts). The club's
+// name comes from the club settings (club/club-settings.service.ts), never from the code.
+import type { MailContent } from '../outbox/outbox.service';
+
+export interface TicketMailFacts {
+  clubName: string;
+  ownerName: string;
+  makeModel: string;
+  /** The tag the owner quotes, e.g. RW-0042. */
+  tag: string;
+  /** Where the owner follows the ticket. */
+  link: string;
+}
+
+function signature(clubName: string): string {
+  return `Rigwright, the repair bench of ${clubName}`;
+}
+
+/** Sent when equipment is handed in (the owner asked for e-mail). */
+export function ticketOpenedMail(facts: TicketMailFacts & { faultReported: string }): MailContent {
+  const { tag } = facts;
+  return {
+    subject: `Ticket ${tag} opened`,
+    text: [
+      `Hello ${facts.ownerName},`,
+      '',
+      `Your ${facts.makeModel} has been handed in at the bench as ticket ${tag}.`,
+      `Fault as reported: ${facts.faultReported}`,
+      '',
+      `Quote ${tag} when you ask about it. You will get an e-mail each time it moves on.`,
+      `Follow it here: ${facts.link}`,
+      '',
+      signature(facts.clubName),
+    ].join('\n'),
+  };
+}
+
+/** Sent on each move between lanes; `from` and `to` are the lanes' labels as the board shows them. */
+export function ticketMovedMail(facts: TicketMailFacts & { from: string; to: string }): MailContent {
+  return {
+    subject: `Your ${facts.makeModel} (${facts.tag}) has moved to ${facts.to}`,
+    text: [
+      `Hello ${facts.ownerName},`,
+      '',
+      `Your ${facts.makeModel} (ticket ${facts.tag}) has moved from ${facts.from} to ${facts.to}.`,
+      `Follow it here: ${facts.link}`,
+      '',
+      signature(facts.clubName),
+    ].join('\n'),
+  };
+}
