@@ -9,7 +9,8 @@ import path from 'node:path';
 import type { Sequelize } from 'sequelize';
 import type { Config } from './config';
 import type { Logger } from './logger';
-import { AppError, NotFoundError } from './errors';
+import { AppError, NotFoundError, ValidationError } from './errors';
+import { CalcInputError } from './domain/input-error';
 import { sessionMiddleware } from './modules/auth/session';
 import { csrfProtection } from './modules/auth/csrf';
 import { requireSignedIn } from './modules/auth/guards';
@@ -101,6 +102,11 @@ export function createApp(deps: AppDeps): express.Express {
   app.use((err: unknown, req: Request, res: Response, _next: NextFunction) => {
     if (err instanceof AppError) {
       res.status(err.status).json(err.toBody());
+      return;
+    }
+    // A domain computation refused its input: 400 with the field named, like a schema's refusal.
+    if (err instanceof CalcInputError) {
+      res.status(400).json(new ValidationError(`${err.field}: ${err.message}`, { [err.field]: err.message }).toBody());
       return;
     }
     const e = err as { type?: string; status?: number; name?: string };
