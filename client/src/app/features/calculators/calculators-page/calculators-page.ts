@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, DestroyRef, Signal, inject } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatCardModule } from '@angular/material/card';
+import { ErrorStateMatcher, ShowOnDirtyErrorStateMatcher } from '@angular/material/core';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -49,6 +50,8 @@ export const GAUGE_CHOICES = [
     DischargeCard,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
+  // The cards recompute as you type, so a field's message shows as you type too, not only on leaving it.
+  providers: [{ provide: ErrorStateMatcher, useClass: ShowOnDirtyErrorStateMatcher }],
   templateUrl: './calculators-page.html',
   styleUrls: ['./calculators-page.scss', '../calc-card.scss'],
 })
