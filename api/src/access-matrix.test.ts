@@ -30,6 +30,11 @@ const ACCESS: Record<string, Actor[]> = {
   'GET /api/calc/xmodem': SIGNED_IN,
   'GET /api/calc/rf': SIGNED_IN,
   'GET /api/calc/dc-drop': SIGNED_IN,
+  'GET /api/calc/level': SIGNED_IN,
+  'GET /api/calc/dummy-load': SIGNED_IN,
+  'GET /api/calc/attenuator': SIGNED_IN,
+  'GET /api/calc/line-loss': SIGNED_IN,
+  'GET /api/calc/discharge': SIGNED_IN,
 };
 
 const PASSWORD = 'matrix-sweep-passphrase';

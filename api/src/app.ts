@@ -7,7 +7,8 @@ import { randomUUID } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { appDeps, type AppDepsInit } from './deps';
-import { AppError, NotFoundError } from './errors';
+import { AppError, NotFoundError, ValidationError } from './errors';
+import { CalcInputError } from './domain/input-error';
 import { sessionMiddleware } from './modules/auth/session';
 import { csrfProtection } from './modules/auth/csrf';
 import { requireSignedIn } from './modules/auth/guards';
@@ -94,6 +95,11 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use((err: unknown, req: Request, res: Response, _next: NextFunction) => {
     if (err instanceof AppError) {
       res.status(err.status).json(err.toBody());
+      return;
+    }
+    // A domain computation refused its input: 400 with the field named, like a schema's refusal.
+    if (err instanceof CalcInputError) {
+      res.status(400).json(new ValidationError(`${err.field}: ${err.message}`, { [err.field]: err.message }).toBody());
       return;
     }
     const e = err as { type?: string; status?: number; name?: string };

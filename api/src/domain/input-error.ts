@@ -18,3 +18,34 @@ export function requireFinite(field: string, value: number, opts: { min?: number
   if (opts.min !== undefined && value < opts.min) throw new CalcInputError(field, `Must be ${opts.min} or more.`);
   if (opts.above !== undefined && value <= opts.above) throw new CalcInputError(field, `Must be more than ${opts.above}.`);
 }
+
+/**
+ * The sane range of one input: the API's query schemas and the domain functions check the same
+ * numbers and say the same words. `aboveMin`: the minimum itself is refused (e.g. 0 W).
+ */
+export interface InputBound {
+  min: number;
+  max: number;
+  aboveMin?: boolean;
+  /** Unit written after the numbers in the message ("W", "Ω"); empty for a plain ratio. */
+  unit: string;
+  /** Why the range ends where it does, said after the range (optional). */
+  why?: string;
+}
+
+/** "Must be more than 0 and at most 10000 W." / "Must be from 1 to 100." */
+export function boundMessage(bound: InputBound): string {
+  const unit = bound.unit ? ` ${bound.unit}` : '';
+  const range = bound.aboveMin ? `more than ${bound.min} and at most ${bound.max}${unit}` : `from ${bound.min} to ${bound.max}${unit}`;
+  return `Must be ${range}${bound.why ? ` (${bound.why})` : ''}.`;
+}
+
+export function withinBound(value: number, bound: InputBound): boolean {
+  return Number.isFinite(value) && (bound.aboveMin ? value > bound.min : value >= bound.min) && value <= bound.max;
+}
+
+/** Throws a CalcInputError on `field` unless `value` is a finite number inside `bound`. */
+export function requireBound(field: string, value: number, bound: InputBound): void {
+  requireFinite(field, value);
+  if (!withinBound(value, bound)) throw new CalcInputError(field, boundMessage(bound));
+}

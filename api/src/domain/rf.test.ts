@@ -1,11 +1,13 @@
-// Check values: the SWR → return loss / mismatch loss rows below are computed from the definitions
-// in The ARRL Handbook for Radio Communications ("Transmission Lines" chapter; edition not looked
-// up here) and agree, to the two decimals printed, with the SWR / return-loss / mismatch-loss
-// tables found in handbooks and in many manufacturers' application notes. The printed values are
-// from memory, so each is also derived in the comment from |Γ| = (SWR − 1) / (SWR + 1).
+// Check values: the SWR → return loss / mismatch loss rows below are the SWR / return-loss /
+// mismatch-loss table of The ARRL Handbook for Radio Communications ("Transmission Lines" chapter)
+// as remembered: from memory, edition and table number not checked here. Because they are from
+// memory, each row is also worked by hand in its comment from |Γ| = (SWR − 1) / (SWR + 1) and the
+// definitions RL = −20 log10 |Γ|, ML = −10 log10 (1 − |Γ|²) (IEEE Std 100, 7th edition, 2000,
+// entries "return loss" and "mismatch loss"; from memory).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
+  FORWARD_W_BOUND,
   dbmToWatts,
   frequencyError,
   gammaFromSwr,
@@ -67,6 +69,23 @@ describe('figures from forward and reflected power', () => {
     assert.equal(f.mismatchLossDb, 0);
     assert.ok(Object.is(f.mismatchLossDb, 0), 'mismatch loss must be +0, not −0');
   });
+  it('any reflected power above zero gives a finite return loss, however small (never null)', () => {
+    // RL = 10 log10 (Pf / Pr): 100 W and 1 µW → 10 log10 1e8 = 80 dB; the smallest double still finite
+    near(rfFigures(100, 1e-6).returnLossDb, 80, 9);
+    for (const [f, r] of [[100, 1e-12], [100, 1e-300], [10_000, Number.MIN_VALUE], [1e-9, Number.MIN_VALUE]]) {
+      const fig = rfFigures(f, r);
+      assert.equal(typeof fig.returnLossDb, 'number', `${f} W / ${r} W`);
+      assert.ok(Number.isFinite(fig.returnLossDb as number) && (fig.returnLossDb as number) > 0, `${f} W / ${r} W → ${fig.returnLossDb}`);
+      assert.ok(Number.isFinite(fig.swr) && Number.isFinite(fig.mismatchLossDb));
+    }
+    // 10 kW / 5e-324 W: 40 + 3233.06 dB, computed from the logarithms so nothing overflows
+    near(rfFigures(10_000, Number.MIN_VALUE).returnLossDb, 40 - 10 * Math.log10(Number.MIN_VALUE), 6);
+  });
+  it('forward power above 10 kW is refused (sane bound), and 10 kW itself is 70 dBm', () => {
+    assert.equal(FORWARD_W_BOUND.max, 10_000);
+    assert.throws(() => rfFigures(10_001, 0), (e: unknown) => e instanceof CalcInputError && e.field === 'forwardW');
+    near(rfFigures(10_000, 0).forwardDbm, 70, 12);
+  });
   it('reflected equal to forward is refused as total reflection', () => {
     assert.throws(() => rfFigures(10, 10), (e: unknown) => e instanceof CalcInputError && e.field === 'reflectedW' && /Total reflection: check the load/.test(e.message));
   });
@@ -83,7 +102,7 @@ describe('figures from forward and reflected power', () => {
   });
 });
 
-describe('watts ↔ dBm (dBm: decibels relative to 1 mW, by definition)', () => {
+describe('watts ↔ dBm (dBm = 10 log10 (P / 1 W) + 30: decibels relative to 1 mW, by definition)', () => {
   it('1 mW = 0 dBm, 1 W = 30 dBm, 5 W = 36.99 dBm, 100 W = 50 dBm, 1500 W = 61.76 dBm', () => {
     near(wattsToDbm(0.001), 0, 12);
     near(wattsToDbm(1), 30, 12);
@@ -117,7 +136,7 @@ describe('frequency error in Hz and ppm (ppm = error / nominal × 10⁶)', () =>
     near(e.errorHz, 11, 6);
     near(e.errorPpm, 0.774647887, 6);
   });
-  it('145.500 MHz nominal, 145.499 855 MHz measured: −145 Hz, −1.00 ppm (to 3 significant figures)', () => {
+  it('145.500 MHz nominal, 145.499 855 MHz measured: −145 Hz, −1.00 ppm (rounded to 2 decimal places; −0.997 ppm to 3 significant figures)', () => {
     // −145 / 145 500 000 × 10⁶ = −0.996563…
     const e = frequencyError(145_499_855, 145_500_000);
     near(e.errorHz, -145, 6);

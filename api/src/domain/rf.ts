@@ -1,34 +1,45 @@
 // RF figures for the test sheet, from forward and reflected power measured into a dummy load.
 //
-// Sources: the definitions as given in The ARRL Handbook for Radio Communications (chapter
-// "Transmission Lines"; the same formulas appear in every edition we know of, edition not
-// checked here) and in IEEE Std 100 (dictionary) for return loss and mismatch loss:
+// Sources (from memory; edition and page not checked here): the definitions in the chapter
+// "Transmission Lines" of The ARRL Handbook for Radio Communications, and the entries "return
+// loss" and "mismatch loss" of IEEE Std 100, The Authoritative Dictionary of IEEE Standards Terms
+// (7th edition, 2000):
 //   |Γ| = sqrt(Pr / Pf)                       reflection coefficient (magnitude)
 //   SWR = (1 + |Γ|) / (1 − |Γ|)
-//   return loss   RL = −20 log10 |Γ|   dB    (positive for a passive load)
-//   mismatch loss ML = −10 log10 (1 − |Γ|²) dB
-//   P(dBm) = 10 log10 (P / 1 mW)
+//   return loss   RL = 10 log10 (Pf / Pr) = −20 log10 |Γ|   dB    (positive for a passive load)
+//   mismatch loss ML = −10 log10 (1 − |Γ|²) = −10 log10 (1 − Pr/Pf)  dB
+//   P(dBm) = 10 log10 (P / 1 W) + 30          (decibels relative to 1 mW, by definition)
+// Return loss is computed from the two powers, not from |Γ|: for a very small reflected power
+// |Γ|² can underflow to 0 while Pf / Pr is still an ordinary number, and a reflected power above
+// zero must always give a finite return loss.
 //
 // Decisions (documented in api/API.md, calc section):
-// - No reflected power (Pr = 0): Γ = 0, SWR 1:1, mismatch loss 0 dB, and return loss is unbounded:
-//   `returnLossDb` is null.
+// - No reflected power (Pr exactly 0): Γ = 0, SWR 1:1, mismatch loss 0 dB, and return loss is
+//   unbounded: `returnLossDb` is null. That is the only case where it is null.
 // - Pr > Pf cannot happen into a passive load: refused (the meter is reversed or misread).
 // - Pr = Pf is total reflection (SWR infinite): refused with "total reflection: check the load".
+// - Powers above 10 kW are refused: no amateur bench measures more (the highest licence limits
+//   are a few kW), and the bound keeps every figure an ordinary number.
 
-import { CalcInputError, requireFinite } from './input-error';
+import { CalcInputError, requireBound, requireFinite, type InputBound } from './input-error';
+
+/** Forward power: more than 0 W, at most 10 kW. */
+export const FORWARD_W_BOUND: InputBound = { min: 0, max: 10_000, aboveMin: true, unit: 'W', why: '10 kW, above any amateur station' };
+/** Reflected power: 0 W to 10 kW (and never above the forward power). */
+export const REFLECTED_W_BOUND: InputBound = { min: 0, max: 10_000, unit: 'W', why: '10 kW, above any amateur station' };
 
 export interface RfFigures {
   reflectionCoefficient: number;
   swr: number;
-  /** null when no power is reflected (return loss is unbounded). */
+  /** null only when the reflected power is exactly 0 (return loss is unbounded); finite otherwise. */
   returnLossDb: number | null;
   mismatchLossDb: number;
   forwardDbm: number;
 }
 
 export function reflectionCoefficient(forwardW: number, reflectedW: number): number {
-  requireFinite('forwardW', forwardW, { above: 0 });
-  requireFinite('reflectedW', reflectedW, { min: 0 });
+  requireBound('forwardW', forwardW, FORWARD_W_BOUND);
+  requireBound('reflectedW', reflectedW, REFLECTED_W_BOUND);
   if (reflectedW > forwardW) {
     throw new CalcInputError('reflectedW', 'Reflected power cannot be above forward power: check the meter direction.');
   }
@@ -58,9 +69,23 @@ export function gammaFromSwr(swr: number): number {
   return (swr - 1) / (swr + 1);
 }
 
+/** P(dBm) = 10 log10 (P / 1 W) + 30: no multiplication first, so no overflow near the top of the range. */
 export function wattsToDbm(watts: number): number {
   requireFinite('watts', watts, { above: 0 });
-  return 10 * Math.log10(watts * 1000);
+  return 10 * Math.log10(watts) + 30;
+}
+
+/** Return loss from the two powers, 10 log10 Pf − 10 log10 Pr: finite for every Pr > 0; null for Pr = 0. */
+export function returnLossDbFromPowers(forwardW: number, reflectedW: number): number | null {
+  requireFinite('forwardW', forwardW, { above: 0 });
+  requireFinite('reflectedW', reflectedW, { min: 0 });
+  return reflectedW === 0 ? null : 10 * Math.log10(forwardW) - 10 * Math.log10(reflectedW);
+}
+
+/** Mismatch loss from the two powers, −10 log10 (1 − Pr/Pf), through log1p so a tiny ratio stays exact. */
+export function mismatchLossDbFromPowers(forwardW: number, reflectedW: number): number {
+  const ratio = reflectedW / forwardW;
+  return ratio === 0 ? 0 : (-10 / Math.LN10) * Math.log1p(-ratio);
 }
 
 export function dbmToWatts(dbm: number): number {
@@ -74,8 +99,8 @@ export function rfFigures(forwardW: number, reflectedW: number): RfFigures {
   return {
     reflectionCoefficient: gamma,
     swr: swrFromGamma(gamma),
-    returnLossDb: returnLossDbFromGamma(gamma),
-    mismatchLossDb: mismatchLossDbFromGamma(gamma),
+    returnLossDb: returnLossDbFromPowers(forwardW, reflectedW),
+    mismatchLossDb: mismatchLossDbFromPowers(forwardW, reflectedW),
     forwardDbm: wattsToDbm(forwardW),
   };
 }
