@@ -3,6 +3,7 @@
 import path from 'node:path';
 import { ensureDatabase, ensureLocalMariaDb } from '../db/local-mariadb';
 import { ROOT, buildClientIfStale, runTs, startApi, startMaildev, type Service } from './services';
+import { localSecret } from './local-secret';
 
 const PORT = process.env.RW_PORT ?? '4300';
 const SMTP_PORT = process.env.RW_SMTP_PORT ?? '1025';
@@ -32,6 +33,8 @@ try {
     RW_PORT: PORT,
     RW_PUBLIC_URL: process.env.RW_PUBLIC_URL ?? `http://127.0.0.1:${PORT}`,
     RW_SMTP_PORT: SMTP_PORT,
+    // Not the repository's default: made once for this checkout, kept in .local/ (mode 0600).
+    RW_JWT_SECRET: process.env.RW_JWT_SECRET ?? localSecret(path.join(ROOT, '.local', 'jwt-secret')),
   };
   runTs('db/migrate.ts', ['up'], env);
   runTs('db/seed.ts', [], env);
