@@ -10,6 +10,8 @@ import type { Sequelize } from 'sequelize';
 import type { Config } from './config';
 import type { Logger } from './logger';
 import { AppError, NotFoundError } from './errors';
+import { clientErrorAnswer, jsonBodyOptions } from './client-errors';
+import { permissionsPolicy } from './permissions-policy';
 import { sessionMiddleware } from './modules/auth/session';
 import { csrfProtection } from './modules/auth/csrf';
 import { requireSignedIn } from './modules/auth/guards';
@@ -55,6 +57,7 @@ export function createApp(deps: AppDeps): express.Express {
       crossOriginEmbedderPolicy: false,
     }),
   );
+  app.use(permissionsPolicy);
   app.use(
     pinoHttp({
       logger,
@@ -75,7 +78,7 @@ export function createApp(deps: AppDeps): express.Express {
     res.setHeader('Cache-Control', 'no-store');
     next();
   });
-  app.use(express.json({ limit: '64kb' }));
+  app.use(express.json(jsonBodyOptions));
   app.use(cookieParser());
   app.use('/api', sessionMiddleware(deps));
   app.use('/api', csrfProtection(deps));
@@ -97,21 +100,22 @@ export function createApp(deps: AppDeps): express.Express {
     });
   }
 
+  // Anything else (another method on a client path, or no client built): the same JSON 404.
+  app.use((_req, _res, next) => next(new NotFoundError('Nothing here. Check the address.', 'not_found')));
+
   // Central error handler: one JSON shape, never a stack trace or SQL.
   app.use((err: unknown, req: Request, res: Response, _next: NextFunction) => {
     if (err instanceof AppError) {
       res.status(err.status).json(err.toBody());
       return;
     }
-    const e = err as { type?: string; status?: number; name?: string };
-    if (e?.type === 'entity.parse.failed') {
-      res.status(400).json({ error: { code: 'invalid_json', message: 'The request body is not valid JSON.' } });
+    // Express, body-parser and friends: a status below 500 is the client's mistake and keeps it.
+    const client = clientErrorAnswer(err);
+    if (client) {
+      res.status(client.status).json(client.body);
       return;
     }
-    if (e?.type === 'entity.too.large') {
-      res.status(413).json({ error: { code: 'too_large', message: 'The request is too large.' } });
-      return;
-    }
+    const e = err as { name?: string };
     if (e?.name?.startsWith('SequelizeConnection') || e?.name === 'SequelizeConnectionAcquireTimeoutError') {
       req.log?.error({ err }, 'database unavailable');
       res.status(503).json({ error: { code: 'database_unavailable', message: 'The database is not answering. Try again in a minute.' } });
