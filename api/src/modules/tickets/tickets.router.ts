@@ -4,7 +4,7 @@ import type { Sequelize } from 'sequelize';
 import type { Config } from '../../config';
 import { parseInput } from '../../errors';
 import { currentUser, requireRole, requireSignedIn } from '../auth/guards';
-import { intakeSchema, listQuerySchema, moveSchema } from './tickets.schemas';
+import { intakeSchema, listQuerySchema, moveSchema, ticketPathParams } from './tickets.schemas';
 import { getTicketDetail, listTickets, moveTicket, openTicket } from './tickets.service';
 
 export interface TicketsRouterDeps {
@@ -27,12 +27,14 @@ export function createTicketsRouter(deps: TicketsRouterDeps): Router {
   });
 
   router.get('/:tag', async (req, res) => {
-    res.json(await getTicketDetail(deps, currentUser(req), String(req.params.tag)));
+    const { tag } = parseInput(ticketPathParams, req.params);
+    res.json(await getTicketDetail(deps, currentUser(req), tag));
   });
 
   router.post('/:tag/moves', requireRole('technician', 'admin'), async (req, res) => {
+    const { tag } = parseInput(ticketPathParams, req.params);
     const input = parseInput(moveSchema, req.body);
-    res.json(await moveTicket(deps, currentUser(req), String(req.params.tag), input));
+    res.json(await moveTicket(deps, currentUser(req), tag, input));
   });
 
   return router;
