@@ -1,7 +1,7 @@
 // Sign-in, registration, password change and password reset. Services see no req/res; the
 // router sets and clears cookies.
 import { createHash, randomBytes } from 'node:crypto';
-import { Op, type Sequelize } from 'sequelize';
+import { Op, Transaction, type Sequelize } from 'sequelize';
 import type { Config } from '../../config';
 import type { Logger } from '../../logger';
 import { AppError, ValidationError } from '../../errors';
@@ -17,7 +17,14 @@ import type { RegisterBody } from './auth.schemas';
 export interface AuthDeps {
   config: Config;
   sequelize: Sequelize;
+  /** The time now; tests pass their own clock instead of waiting for the real one. */
+  clock?: () => Date;
 }
+
+const now = (deps: AuthDeps): Date => deps.clock?.() ?? new Date();
+
+/** Reset mails to one person are counted over this window (RW_RESET_MAILS_PER_HOUR). */
+export const RESET_MAIL_WINDOW_MS = 60 * 60 * 1000;
 
 /** A signed-in person and the generation their new session token must carry. */
 export interface SignedIn {
@@ -75,7 +82,9 @@ export async function changePassword(deps: AuthDeps, userId: number, currentPass
     user.passwordHash = await hashPassword(newPassword, argon2ParamsFromConfig(deps.config));
     user.sessionGeneration = user.sessionGeneration + 1;
     await user.save({ transaction });
-    log?.info({ event: 'password_changed', userId }, 'password changed; other sessions ended');
+    // A reset link mailed before the change must not undo it.
+    const [voided] = await PasswordReset.update({ usedAt: now(deps) }, { where: { userId, usedAt: null }, transaction });
+    log?.info({ event: 'password_changed', userId, resetLinksVoided: voided }, 'password changed; other sessions ended');
     return { user: toPublicUser(user), generation: user.sessionGeneration };
   });
 }
@@ -85,21 +94,36 @@ export function hashResetToken(token: string): string {
 }
 
 /**
- * Always succeeds from the caller's view. When the account exists (and is not disabled), stores
- * the SHA-256 of a random single-use token and queues the mail in the same transaction.
+ * Always succeeds from the caller's view (the router answers 202 before calling this, so the
+ * answer cannot tell whether the address has an account). When the account exists, is not
+ * disabled and has had fewer than RW_RESET_MAILS_PER_HOUR reset mails in the last hour, stores
+ * the SHA-256 of a random single-use token and queues the mail in the same transaction. The
+ * person's row is locked meanwhile, so simultaneous requests cannot slip past the limit.
  */
 export async function requestPasswordReset(deps: AuthDeps, email: string, log?: Logger): Promise<void> {
   const { config } = deps;
-  await deps.sequelize.transaction(async (transaction) => {
-    const user = await findUserByEmail(email, transaction);
+  // READ COMMITTED: the count below must see a reset that a simultaneous request committed while
+  // this one waited for the row lock (REPEATABLE READ would count from an older snapshot).
+  await deps.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
+    const found = await findUserByEmail(email, transaction);
+    const user = found && (await findUser(found.id, transaction, true));
     if (!user || user.disabled) {
       log?.info({ event: 'password_reset_unknown', email }, 'password reset asked for an unknown or disabled account');
+      return;
+    }
+    const at = now(deps);
+    const recent = await PasswordReset.count({
+      where: { userId: user.id, createdAt: { [Op.gt]: new Date(at.getTime() - RESET_MAIL_WINDOW_MS) } },
+      transaction,
+    });
+    if (recent >= config.RW_RESET_MAILS_PER_HOUR) {
+      log?.warn({ event: 'password_reset_limited', userId: user.id, recent }, 'password reset mail not sent: hourly limit for this address reached');
       return;
     }
     const token = randomBytes(32).toString('base64url');
     const minutes = config.RW_RESET_TOKEN_MINUTES;
     await PasswordReset.create(
-      { userId: user.id, tokenHash: hashResetToken(token), expiresAt: new Date(Date.now() + minutes * 60_000), usedAt: null },
+      { userId: user.id, tokenHash: hashResetToken(token), expiresAt: new Date(at.getTime() + minutes * 60_000), usedAt: null, createdAt: at },
       { transaction },
     );
     const link = `${config.RW_PUBLIC_URL.replace(/\/$/, '')}/reset-password?token=${encodeURIComponent(token)}`;
@@ -123,7 +147,7 @@ export async function confirmPasswordReset(deps: AuthDeps, token: string, newPas
     new AppError(400, 'reset_token_invalid', 'This reset link is not valid any more. Ask for a new one from the sign-in page.');
   await deps.sequelize.transaction(async (transaction) => {
     const reset = await PasswordReset.findOne({
-      where: { tokenHash: hashResetToken(token), usedAt: null, expiresAt: { [Op.gt]: new Date() } },
+      where: { tokenHash: hashResetToken(token), usedAt: null, expiresAt: { [Op.gt]: now(deps) } },
       transaction,
       lock: transaction.LOCK.UPDATE,
     });
@@ -135,7 +159,7 @@ export async function confirmPasswordReset(deps: AuthDeps, token: string, newPas
     user.sessionGeneration = user.sessionGeneration + 1;
     await user.save({ transaction });
     // This token and any other outstanding ones for the person are spent.
-    await PasswordReset.update({ usedAt: new Date() }, { where: { userId: user.id, usedAt: null }, transaction });
+    await PasswordReset.update({ usedAt: now(deps) }, { where: { userId: user.id, usedAt: null }, transaction });
     log?.info({ event: 'password_reset', userId: user.id }, 'password reset; sessions ended');
   });
 }
