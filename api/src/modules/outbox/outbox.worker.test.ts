@@ -38,7 +38,8 @@ function worker(options: OutboxWorkerOptions = {}) {
     config: { ...t.config, RW_SMTP_HOST: '127.0.0.1', RW_SMTP_PORT: SMTP_PORT, RW_OUTBOX_INTERVAL_MS: 0 },
     sequelize: t.sequelize,
     logger: t.logger,
-    options: { baseDelayMs: 150, maxDelayMs: 1000, smtpTimeoutMs: 3000, ...options },
+    // Back-offs of a minute and more: with the clock skipped by hand, real time never catches up.
+    options: { baseDelayMs: 60_000, maxDelayMs: 600_000, smtpTimeoutMs: 3000, now: clock, ...options },
   });
 }
 
@@ -49,7 +50,10 @@ async function outboxRows() {
   );
 }
 
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+/** The workers' clock: real time plus whatever the test has skipped ahead (no waiting for back-offs). */
+let skippedMs = 0;
+const clock = () => new Date(Date.now() + skippedMs);
+const skip = (ms: number) => (skippedMs += ms);
 
 const intake = {
   equipmentKind: 'transceiver',
@@ -123,21 +127,22 @@ describe('outbox worker', () => {
       assert.equal(row.attempts, 1);
       assert.match(row.last_error ?? '', /ECONNREFUSED/);
       assert.equal(row.locked_until, null);
-      assert.ok(row.next_attempt_at.getTime() > Date.now() - 50, 'the next try waits for the back-off');
+      assert.ok(row.next_attempt_at.getTime() >= clock().getTime() + 55_000, 'the next try waits for the back-off (a minute)');
       assert.equal(await w.runOnce(), 0, 'not due yet');
       assert.equal((await outboxRows())[0].attempts, 1);
 
-      await sleep(200);
+      skip(61_000);
       assert.equal(await w.runOnce(), 0);
       [row] = await outboxRows();
       assert.equal(row.attempts, 2, 'second failed try');
 
       md = newMailDev();
       await md.start();
-      await sleep(350); // the back-off after two failures is 2 × 150 ms
+      assert.equal(await w.runOnce(), 0, 'the server is back, but the back-off after two failures (2 × 60 s) has not passed');
+      skip(121_000);
       assert.equal(await w.runOnce(), 1);
       assert.equal(await w.runOnce(), 0);
-      await sleep(350);
+      skip(3_600_000);
       assert.equal(await w.runOnce(), 0, 'a sent mail is never sent again');
       const mails = await inbox();
       assert.equal(mails.length, 1);
@@ -151,19 +156,19 @@ describe('outbox worker', () => {
   });
 
   it('gives a mail up as failed after the last attempt, keeping the error', async () => {
-    const w = worker({ maxAttempts: 2, baseDelayMs: 1 });
+    const w = worker({ maxAttempts: 2 });
     try {
       await t.sequelize.transaction((transaction) =>
         enqueueMail(transaction, { kind: 'password_reset', to: 'perrin@kestrelfen.example', subject: 'Reset your password', text: 'x' }),
       );
       await w.runOnce();
-      await sleep(10);
+      skip(61_000);
       await w.runOnce();
       const [row] = await outboxRows();
       assert.equal(row.status, 'failed');
       assert.equal(row.attempts, 2);
       assert.match(row.last_error ?? '', /ECONNREFUSED/);
-      await sleep(10);
+      skip(3_600_000);
       assert.equal(await w.runOnce(), 0);
       assert.equal((await outboxRows())[0].attempts, 2, 'a failed mail is not retried');
     } finally {

@@ -25,6 +25,8 @@ export interface OutboxWorkerOptions {
   maxAttempts?: number;
   /** SMTP connection, greeting and socket timeouts. */
   smtpTimeoutMs?: number;
+  /** The time now (due rows, leases, back-off); tests pass their own clock instead of waiting. */
+  now?: () => Date;
 }
 
 export interface OutboxWorkerDeps {
@@ -42,6 +44,7 @@ export interface OutboxWorker {
 }
 
 export const OUTBOX_DEFAULTS: Required<Omit<OutboxWorkerOptions, 'intervalMs'>> = {
+  now: () => new Date(),
   batchSize: 20,
   leaseMs: 120_000,
   baseDelayMs: 2_000,
@@ -101,7 +104,7 @@ export function startOutboxWorker(deps: OutboxWorkerDeps): OutboxWorker {
   async function claimOnce(): Promise<ClaimedRow[]> {
     // READ COMMITTED: no gap locks, so SKIP LOCKED lets concurrent claimers take disjoint rows.
     return sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
-      const now = new Date();
+      const now = opts.now();
       const due = await sequelize.query<{ id: number | string }>(
         "SELECT id FROM outbox WHERE status = 'pending' AND next_attempt_at <= :now " +
           'AND (locked_until IS NULL OR locked_until < :now) ORDER BY next_attempt_at, id LIMIT :limit FOR UPDATE SKIP LOCKED',
@@ -132,7 +135,7 @@ export function startOutboxWorker(deps: OutboxWorkerDeps): OutboxWorker {
     } catch (err) {
       const attempts = row.attempts + 1;
       const failed = attempts >= opts.maxAttempts;
-      const next = new Date(Date.now() + retryDelayMs(attempts, opts.baseDelayMs, opts.maxDelayMs));
+      const next = new Date(opts.now().getTime() + retryDelayMs(attempts, opts.baseDelayMs, opts.maxDelayMs));
       await sequelize.query(
         'UPDATE outbox SET attempts = :attempts, status = :status, next_attempt_at = :next, locked_until = NULL, ' +
           'last_error = :error WHERE id = :id',
@@ -143,7 +146,7 @@ export function startOutboxWorker(deps: OutboxWorkerDeps): OutboxWorker {
     }
     await sequelize.query(
       "UPDATE outbox SET status = 'sent', sent_at = :now, attempts = attempts + 1, locked_until = NULL, last_error = NULL WHERE id = :id",
-      { replacements: { now: new Date(), id: row.id } },
+      { replacements: { now: opts.now(), id: row.id } },
     );
     log.info({ outboxId: Number(row.id) }, 'mail sent');
     return true;
