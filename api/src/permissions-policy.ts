@@ -5,12 +5,12 @@ import type { NextFunction, Request, Response } from 'express';
 /**
  * Browser features the app does not use are switched off for its pages and anything they embed;
  * Web Serial stays on for our own origin (the Flasher talks to a radio's bootloader through it).
- * Names are those Chromium and Firefox recognise (W3C Permissions Policy; MDN's directive list).
+ * Names are those Chromium recognises (W3C Permissions Policy; MDN's directive list); an unknown name
+ * only earns a console warning ("Unrecognized feature"), so `bluetooth` is left out.
  */
 export const PERMISSIONS_POLICY = [
   'accelerometer=()',
   'autoplay=()',
-  'bluetooth=()',
   'browsing-topics=()',
   'camera=()',
   'display-capture=()',

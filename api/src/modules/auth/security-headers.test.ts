@@ -36,7 +36,7 @@ function assertSecurityHeaders(res: Response, label: string) {
 function assertPermissionsPolicy(res: Response, label: string) {
   const policy = String(res.headers['permissions-policy'] ?? '');
   const directives = new Map(policy.split(/,\s*/).map((d) => d.split('=') as [string, string]));
-  for (const feature of ['camera', 'microphone', 'geolocation', 'payment', 'usb', 'bluetooth', 'hid', 'midi', 'display-capture']) {
+  for (const feature of ['camera', 'microphone', 'geolocation', 'payment', 'usb', 'hid', 'midi', 'display-capture']) {
     assert.equal(directives.get(feature), '()', `${label}: Permissions-Policy turns ${feature} off (got ${policy})`);
   }
   assert.equal(directives.get('serial'), '(self)', `${label}: Web Serial stays on for our own origin`);
