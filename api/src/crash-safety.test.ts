@@ -117,16 +117,16 @@ async function rows<T extends object>(t: TestApp, sql: string): Promise<T[]> {
 }
 
 test('SIGKILL mid-burst of moves and intakes: every 2xx is stored whole, nothing is half-written', { timeout: 300_000 }, async () => {
-  t = await setupTestApp();
-  await createUser(t.sequelize, { email: 'tess.kilner@kestrelfen.example', password: PASSWORD, roles: ['technician'] });
-  await createUser(t.sequelize, { email: 'abel.crane@kestrelfen.example', password: PASSWORD, roles: ['member'] });
+  const db = (t = await setupTestApp());
+  await createUser(db.sequelize, { email: 'tess.kilner@kestrelfen.example', password: PASSWORD, roles: ['technician'] });
+  await createUser(db.sequelize, { email: 'abel.crane@kestrelfen.example', password: PASSWORD, roles: ['member'] });
   // Tickets waiting at intake for the burst to move, opened in-process before the child starts.
-  const member = await signIn(t.app, 'abel.crane@kestrelfen.example', PASSWORD);
+  const member = await signIn(db.app, 'abel.crane@kestrelfen.example', PASSWORD);
   const waiting: string[] = [];
   for (let i = 0; i < PRE_OPENED; i++) waiting.push((await member.post('/api/tickets', intake(i)).expect(201)).body.tag);
 
   const port = await freePort();
-  const first = await startApi(t, port);
+  const first = await startApi(db, port);
   const tech = await client(port, 'tess.kilner@kestrelfen.example');
   const owner = await client(port, 'abel.crane@kestrelfen.example');
 
@@ -172,18 +172,18 @@ test('SIGKILL mid-burst of moves and intakes: every 2xx is stored whole, nothing
   for (const o of answered) assert.ok([200, 201, 409].includes(o.status), `unexpected answer ${JSON.stringify(o)}`);
 
   // Start again on the same database and port: it recovers by itself and serves.
-  await startApi(t, port);
+  await startApi(db, port);
   const techAgain = await client(port, 'tess.kilner@kestrelfen.example');
 
   // Every acknowledged intake: the ticket, its one 'opened' event and its one mail.
   const intakesOk = answered.filter((o) => o.kind === 'intake' && o.status === 201) as { id: number }[];
   for (const { id } of intakesOk) {
     assert.ok(Number.isInteger(id), 'a 201 carries the ticket id');
-    const [ticket] = await rows<{ state: string; version: number }>(t, `SELECT state, version FROM tickets WHERE id = ${id}`);
+    const [ticket] = await rows<{ state: string; version: number }>(db, `SELECT state, version FROM tickets WHERE id = ${id}`);
     assert.ok(ticket, `acknowledged ticket ${id} is in the database`);
-    const [events] = await rows<{ n: number }>(t, `SELECT COUNT(*) AS n FROM ticket_events WHERE ticket_id = ${id} AND kind = 'opened'`);
+    const [events] = await rows<{ n: number }>(db, `SELECT COUNT(*) AS n FROM ticket_events WHERE ticket_id = ${id} AND kind = 'opened'`);
     assert.equal(Number(events!.n), 1, `ticket ${id} has its opened event`);
-    const [mails] = await rows<{ n: number }>(t, `SELECT COUNT(*) AS n FROM outbox WHERE ticket_id = ${id} AND kind = 'ticket_opened'`);
+    const [mails] = await rows<{ n: number }>(db, `SELECT COUNT(*) AS n FROM outbox WHERE ticket_id = ${id} AND kind = 'ticket_opened'`);
     assert.equal(Number(mails!.n), 1, `ticket ${id} has its opened mail`);
   }
   // Every acknowledged move: the ticket in diagnosis at version 1, one 'moved' event, one mail.
@@ -197,14 +197,13 @@ test('SIGKILL mid-burst of moves and intakes: every 2xx is stored whole, nothing
     const moved = (detail.body!.events as { kind: string; fromState: string; toState: string }[]).filter((e) => e.kind === 'moved');
     assert.deepEqual(moved.map((e) => [e.fromState, e.toState]), [['intake', 'diagnosis']], `${tag} has its moved event`);
     const id = Number(tag.slice(3));
-    const [mails] = await rows<{ n: number }>(t, `SELECT COUNT(*) AS n FROM outbox WHERE ticket_id = ${id} AND kind = 'ticket_moved'`);
+    const [mails] = await rows<{ n: number }>(db, `SELECT COUNT(*) AS n FROM outbox WHERE ticket_id = ${id} AND kind = 'ticket_moved'`);
     assert.equal(Number(mails!.n), 1, `${tag} has its moved mail`);
   }
 
   // Nothing half-written anywhere, whether answered or cut off: per ticket, one opened event and
   // mail, one moved event and mail per version step, a state that matches its events.
-  const tickets = await rows<{ id: number; state: string; version: number; opened: number; moved: number; opened_mails: number; moved_mails: number; last_to: string | null }>(
-    t,
+  const tickets = await rows<{ id: number; state: string; version: number; opened: number; moved: number; opened_mails: number; moved_mails: number; last_to: string | null }>(db,
     `SELECT t.id, t.state, t.version,
             (SELECT COUNT(*) FROM ticket_events e WHERE e.ticket_id = t.id AND e.kind = 'opened') AS opened,
             (SELECT COUNT(*) FROM ticket_events e WHERE e.ticket_id = t.id AND e.kind = 'moved') AS moved,
@@ -222,14 +221,13 @@ test('SIGKILL mid-burst of moves and intakes: every 2xx is stored whole, nothing
     assert.equal(Number(row.moved_mails), Number(row.version), `${label}: one moved mail per version step`);
     assert.equal(row.last_to, row.state, `${label}: its state is where its last event put it`);
   }
-  const [orphans] = await rows<{ events: number; mails: number }>(
-    t,
+  const [orphans] = await rows<{ events: number; mails: number }>(db,
     `SELECT (SELECT COUNT(*) FROM ticket_events e LEFT JOIN tickets t ON t.id = e.ticket_id WHERE t.id IS NULL) AS events,
             (SELECT COUNT(*) FROM outbox o WHERE o.ticket_id IS NOT NULL AND o.ticket_id NOT IN (SELECT id FROM tickets)) AS mails`,
   );
   assert.deepEqual([Number(orphans!.events), Number(orphans!.mails)], [0, 0], 'no event or mail without its ticket');
   // The board revision is bumped in the same transaction as each write: one per ticket and per move.
-  const [settings] = await rows<{ board_revision: number }>(t, 'SELECT board_revision FROM club_settings WHERE id = 1');
+  const [settings] = await rows<{ board_revision: number }>(db, 'SELECT board_revision FROM club_settings WHERE id = 1');
   const totalMoves = tickets.reduce((n, r) => n + Number(r.moved), 0);
   assert.equal(Number(settings!.board_revision), tickets.length + totalMoves, 'board revision matches the writes that committed');
 
