@@ -52,13 +52,34 @@ export async function startMaildev(smtpPort: number, webPort: number, opts: { qu
     return { name: 'maildev', startedHere: false, stop: async () => {} };
   }
   const bin = path.join(ROOT, 'node_modules', 'maildev', 'dist', 'bin', 'maildev.js');
+  // --ip binds only the SMTP side; the web inbox needs --web-ip, or maildev 3 listens on 0.0.0.0
+  // and shows every caught mail to the whole network. Its own start-up line ("MailDev API running
+  // at ...") is left out: the start command prints the inbox address itself.
   const child = spawn(
     process.execPath,
-    [bin, '--ip', '127.0.0.1', '--smtp', String(smtpPort), '--web', String(webPort), '--silent'],
-    { cwd: ROOT, stdio: opts.quiet ? 'ignore' : ['ignore', 'inherit', 'inherit'] },
+    [bin, '--ip', '127.0.0.1', '--web-ip', '127.0.0.1', '--smtp', String(smtpPort), '--web', String(webPort), '--silent'],
+    { cwd: ROOT, stdio: opts.quiet ? 'ignore' : ['ignore', 'ignore', 'inherit'] },
   );
   await waitFor(health, 'maildev', child, 30_000);
   return { name: 'maildev', startedHere: true, stop: stopChild(child, 'maildev') };
+}
+
+/**
+ * The address that opens maildev's inbox in a browser. maildev 3 serves its web inbox at the root
+ * of its web port, but only to requests that accept text/html (as a browser's address bar does):
+ * anything else there gets 404 {"error":"Not found"}, and its REST API lives under /api. Checked
+ * here the way a browser asks, so the start command never prints an address that does not open.
+ */
+export async function mailInboxUrl(webPort: number): Promise<string> {
+  const url = `http://127.0.0.1:${webPort}/`;
+  try {
+    const res = await fetch(url, { headers: { Accept: 'text/html,application/xhtml+xml,*/*;q=0.8' }, signal: AbortSignal.timeout(3000) });
+    const html = await res.text();
+    if (res.ok && /text\/html/.test(res.headers.get('content-type') ?? '') && /maildev/i.test(html)) return url;
+    throw new Error(`answered ${res.status} ${res.headers.get('content-type')}`);
+  } catch (err) {
+    throw new Error(`The mail catcher's inbox did not open at ${url} (${(err as Error).message}). Is another program using port ${webPort}?`);
+  }
 }
 
 /** The API (and the built client) as a child process, with the given environment. */

@@ -2,7 +2,8 @@
 // and the API, each reused when already running. Ctrl-C stops what this command started.
 import path from 'node:path';
 import { ensureDatabase, ensureLocalMariaDb } from '../db/local-mariadb';
-import { ROOT, buildClientIfStale, runTs, startApi, startMaildev, type Service } from './services';
+import { ROOT, buildClientIfStale, mailInboxUrl, runTs, startApi, startMaildev, type Service } from './services';
+import { localSecret } from './local-secret';
 
 const PORT = process.env.RW_PORT ?? '4300';
 const SMTP_PORT = process.env.RW_SMTP_PORT ?? '1025';
@@ -32,11 +33,14 @@ try {
     RW_PORT: PORT,
     RW_PUBLIC_URL: process.env.RW_PUBLIC_URL ?? `http://127.0.0.1:${PORT}`,
     RW_SMTP_PORT: SMTP_PORT,
+    // Not the repository's default: made once for this checkout, kept in .local/ (mode 0600).
+    RW_JWT_SECRET: process.env.RW_JWT_SECRET ?? localSecret(path.join(ROOT, '.local', 'jwt-secret')),
   };
   runTs('db/migrate.ts', ['up'], env);
   runTs('db/seed.ts', [], env);
 
   started.push(await startMaildev(Number(SMTP_PORT), Number(MAIL_WEB_PORT)));
+  const inbox = await mailInboxUrl(Number(MAIL_WEB_PORT));
   buildClientIfStale();
   const api = await startApi(env);
   started.push(api);
@@ -45,7 +49,7 @@ try {
   console.log(`
   Rigwright is running.
     Open:        http://127.0.0.1:${PORT}/
-    Mail inbox:  http://127.0.0.1:${MAIL_WEB_PORT}/   (every e-mail the app sends lands here)
+    Mail inbox:  ${inbox}   (open it in a browser: every e-mail the app sends lands here)
     Demo sign-ins (Kestrel Fen Radio Society, invented):
       admin       admin@kestrelfen.example       bench-demo-admin
       technician  tech@kestrelfen.example        bench-demo-tech

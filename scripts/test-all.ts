@@ -3,6 +3,7 @@
 // Debian's Chromium against the built client and a running API, database rigwright_e2e).
 // Ends with one line "N passed, N failed" that adds up every suite, for CI.
 import { spawn } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
 import { readFileSync, readdirSync, existsSync, mkdirSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { ensureDatabase, ensureLocalMariaDb } from '../db/local-mariadb';
@@ -77,7 +78,7 @@ async function clientUnitTests() {
 }
 
 async function apiTests() {
-  const files = [...findFiles(path.join(ROOT, 'api'), '.test.ts'), ...findFiles(path.join(ROOT, 'db'), '.test.ts')];
+  const files = ['api', 'db', 'scripts'].flatMap((dir) => findFiles(path.join(ROOT, dir), '.test.ts'));
   const { code, output } = await run(
     process.execPath,
     ['--import', 'tsx', '--test', '--test-concurrency=1', '--test-reporter=spec', ...files],
@@ -142,6 +143,8 @@ async function browserTests() {
     RW_SMTP_PORT: E2E_SMTP_PORT,
     RW_OUTBOX_INTERVAL_MS: '300',
     RW_LOG_LEVEL: 'warn',
+    // A fresh random session secret for this run (never the repository's development default).
+    RW_JWT_SECRET: randomBytes(48).toString('base64url'),
   };
   runTs('db/migrate.ts', ['up'], env);
   runTs('db/seed.ts', [], env);

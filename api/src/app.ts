@@ -9,6 +9,8 @@ import path from 'node:path';
 import { appDeps, type AppDepsInit } from './deps';
 import { AppError, NotFoundError, ValidationError } from './errors';
 import { CalcInputError } from './domain/input-error';
+import { clientErrorAnswer, jsonBodyOptions } from './client-errors';
+import { permissionsPolicy } from './permissions-policy';
 import { sessionMiddleware } from './modules/auth/session';
 import { csrfProtection } from './modules/auth/csrf';
 import { requireSignedIn } from './modules/auth/guards';
@@ -49,6 +51,7 @@ export function createApp(init: AppDepsInit): express.Express {
       crossOriginEmbedderPolicy: false,
     }),
   );
+  app.use(permissionsPolicy);
   app.use(
     pinoHttp({
       logger,
@@ -69,7 +72,7 @@ export function createApp(init: AppDepsInit): express.Express {
     res.setHeader('Cache-Control', 'no-store');
     next();
   });
-  app.use(express.json({ limit: '64kb' }));
+  app.use(express.json(jsonBodyOptions));
   app.use(cookieParser());
   app.use('/api', sessionMiddleware(deps));
   app.use('/api', csrfProtection(deps));
@@ -91,6 +94,9 @@ export function createApp(init: AppDepsInit): express.Express {
     });
   }
 
+  // Anything else (another method on a client path, or no client built): the same JSON 404.
+  app.use((_req, _res, next) => next(new NotFoundError('Nothing here. Check the address.', 'not_found')));
+
   // Central error handler: one JSON shape, never a stack trace or SQL.
   app.use((err: unknown, req: Request, res: Response, _next: NextFunction) => {
     if (err instanceof AppError) {
@@ -102,15 +108,13 @@ export function createApp(init: AppDepsInit): express.Express {
       res.status(400).json(new ValidationError(`${err.field}: ${err.message}`, { [err.field]: err.message }).toBody());
       return;
     }
-    const e = err as { type?: string; status?: number; name?: string };
-    if (e?.type === 'entity.parse.failed') {
-      res.status(400).json({ error: { code: 'invalid_json', message: 'The request body is not valid JSON.' } });
+    // Express, body-parser and friends: a status below 500 is the client's mistake and keeps it.
+    const client = clientErrorAnswer(err);
+    if (client) {
+      res.status(client.status).json(client.body);
       return;
     }
-    if (e?.type === 'entity.too.large') {
-      res.status(413).json({ error: { code: 'too_large', message: 'The request is too large.' } });
-      return;
-    }
+    const e = err as { name?: string };
     if (e?.name?.startsWith('SequelizeConnection') || e?.name === 'SequelizeConnectionAcquireTimeoutError') {
       req.log?.error({ err }, 'database unavailable');
       res.status(503).json({ error: { code: 'database_unavailable', message: 'The database is not answering. Try again in a minute.' } });

@@ -5,6 +5,10 @@ const bool = z
   .enum(['true', 'false', '1', '0'])
   .transform((v) => v === 'true' || v === '1');
 
+/** Development defaults of the two secrets. Both are in the repository, so production refuses them. */
+export const DEV_JWT_SECRET = 'local-development-secret-change-me-0123456789';
+export const DEV_DB_PASSWORD = 'rigwright-local';
+
 const schema = z.object({
   NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
   RW_PORT: z.coerce.number().int().min(1).max(65535).default(4300),
@@ -15,10 +19,10 @@ const schema = z.object({
   RW_DB_PORT: z.coerce.number().int().default(3407),
   RW_DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/).default('rigwright'),
   RW_DB_USER: z.string().default('rigwright'),
-  RW_DB_PASSWORD: z.string().default('rigwright-local'),
+  RW_DB_PASSWORD: z.string().default(DEV_DB_PASSWORD),
   RW_DB_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
   /** HMAC secret for session tokens and anti-forgery tokens: at least 32 characters. */
-  RW_JWT_SECRET: z.string().min(32).default('local-development-secret-change-me-0123456789'),
+  RW_JWT_SECRET: z.string().min(32).default(DEV_JWT_SECRET),
   RW_SESSION_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(120),
   /** Secure cookies (set false only for plain-http test rigs that are not localhost). */
   RW_COOKIE_SECURE: bool.default(true),
@@ -40,16 +44,52 @@ const schema = z.object({
   RW_ARGON2_PARALLELISM: z.coerce.number().int().min(1).max(8).default(1),
   /** Password-reset links stay valid this long (single use). */
   RW_RESET_TOKEN_MINUTES: z.coerce.number().int().min(5).max(24 * 60).default(60),
+  /** Reset mails one address may receive per hour; requests beyond it are answered alike and send nothing. */
+  RW_RESET_MAILS_PER_HOUR: z.coerce.number().int().min(1).max(100).default(3),
+  /**
+   * Slow clients: the whole request (headers and body) must arrive within RW_REQUEST_TIMEOUT_MS and
+   * its headers within RW_HEADERS_TIMEOUT_MS, or Node answers 408 and closes the connection.
+   */
+  RW_REQUEST_TIMEOUT_MS: z.coerce.number().int().min(1000).max(3_600_000).default(60_000),
+  RW_HEADERS_TIMEOUT_MS: z.coerce.number().int().min(1000).max(600_000).default(15_000),
   RW_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
 export type Config = z.infer<typeof schema>;
+
+/**
+ * What production refuses: a secret that is missing (so the repository's default would be used)
+ * or set to that default. Anyone with the repository could otherwise sign an admin session.
+ */
+function productionProblems(config: Config): string[] {
+  if (config.NODE_ENV !== 'production') return [];
+  const problems: string[] = [];
+  if (config.RW_JWT_SECRET === DEV_JWT_SECRET) {
+    problems.push(
+      'RW_JWT_SECRET: set it to a random secret of at least 32 characters (for example the output of `openssl rand -base64 48`); ' +
+        'the development default is public and would let anyone sign a session.',
+    );
+  }
+  if (config.RW_DB_PASSWORD === DEV_DB_PASSWORD) {
+    problems.push("RW_DB_PASSWORD: set it to the database user's own password; the development default is public.");
+  }
+  return problems;
+}
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Partial<Record<keyof Config, string>> = {}): Config {
   const result = schema.safeParse({ ...env, ...overrides });
   if (!result.success) {
     const lines = result.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`).join('\n');
     throw new Error(`Invalid configuration:\n${lines}`);
+  }
+  const problems = productionProblems(result.data);
+  // Node refuses a headers timeout longer than the request timeout when the server is created.
+  if (result.data.RW_HEADERS_TIMEOUT_MS > result.data.RW_REQUEST_TIMEOUT_MS) {
+    problems.push('RW_HEADERS_TIMEOUT_MS: keep it at or below RW_REQUEST_TIMEOUT_MS.');
+  }
+  if (problems.length) {
+    const lead = result.data.NODE_ENV === 'production' ? 'Refusing to start in production:' : 'Invalid configuration:';
+    throw new Error(`${lead}\n${problems.map((p) => `  ${p}`).join('\n')}`);
   }
   return result.data;
 }

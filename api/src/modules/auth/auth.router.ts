@@ -4,6 +4,7 @@
 import { Router, type Response } from 'express';
 import { forRequest, type AppDeps } from '../../deps';
 import { parseInput } from '../../errors';
+import { backgroundWork } from '../../background';
 import * as auth from './auth.service';
 import { changePasswordBody, registerBody, resetConfirmBody, resetRequestBody, signInBody } from './auth.schemas';
 import { issueCsrfCookie } from './csrf';
@@ -58,10 +59,12 @@ export function createAuthRouter(deps: Pick<AppDeps, 'config' | 'sequelize' | 'l
     res.status(204).end();
   });
 
-  router.post('/password-reset/request', anonymousFormLimiter(deps, 'reset-addr', 'password-reset requests'), async (req, res) => {
+  router.post('/password-reset/request', anonymousFormLimiter(deps, 'reset-addr', 'password-reset requests'), (req, res) => {
     const body = parseInput(resetRequestBody, req.body);
-    await auth.requestPasswordReset(forRequest(deps, req), null, body);
+    // Answer first, then do the work: the answer takes the same time whether or not the address
+    // has an account (no lookup, hashing or mail in front of it).
     res.status(202).json({ message: 'If an account uses that address, a reset link is on its way.' });
+    backgroundWork.run('password reset request', req.log, () => auth.requestPasswordReset(forRequest(deps, req), null, body));
   });
 
   router.post('/password-reset/confirm', anonymousFormLimiter(deps, 'reset-confirm-addr', 'password-reset attempts'), async (req, res) => {

@@ -1,7 +1,7 @@
 // Sign-in, registration, password change and password reset. Services see no req/res; the
 // router sets and clears cookies.
 import { createHash, randomBytes } from 'node:crypto';
-import { Op } from 'sequelize';
+import { Op, Transaction } from 'sequelize';
 import type { Anonymous, AppDeps } from '../../deps';
 import { AppError, ValidationError } from '../../errors';
 import { enqueueMail } from '../outbox/outbox.service';
@@ -18,6 +18,11 @@ import type { ChangePasswordBody, RegisterBody, ResetConfirmBody, ResetRequestBo
 
 /** The logger is the request's (see forRequest in deps.ts), so what is logged here carries its id. */
 export type AuthDeps = Pick<AppDeps, 'config' | 'sequelize' | 'logger' | 'clock'>;
+
+const now = (deps: AuthDeps): Date => deps.clock();
+
+/** Reset mails to one person are counted over this window (RW_RESET_MAILS_PER_HOUR). */
+export const RESET_MAIL_WINDOW_MS = 60 * 60 * 1000;
 
 /** A signed-in person and the generation their new session token must carry. */
 export interface SignedIn {
@@ -81,7 +86,9 @@ export async function changePassword(deps: AuthDeps, actor: SessionUser, input: 
     user.passwordHash = await hashPassword(newPassword, argon2ParamsFromConfig(deps.config));
     user.sessionGeneration = user.sessionGeneration + 1;
     await user.save({ transaction });
-    log?.info({ event: 'password_changed', userId }, 'password changed; other sessions ended');
+    // A reset link mailed before the change must not undo it.
+    const [voided] = await PasswordReset.update({ usedAt: now(deps) }, { where: { userId, usedAt: null }, transaction });
+    log?.info({ event: 'password_changed', userId, resetLinksVoided: voided }, 'password changed; other sessions ended');
     return { user: toPublicUser(user), generation: user.sessionGeneration };
   });
 }
@@ -91,29 +98,43 @@ export function hashResetToken(token: string): string {
 }
 
 /**
- * Always succeeds from the caller's view. When the account exists (and is not disabled), stores
- * the SHA-256 of a random single-use token and queues the mail in the same transaction.
+ * Always succeeds from the caller's view (the router answers 202 before calling this, so the
+ * answer cannot tell whether the address has an account). When the account exists, is not
+ * disabled and has had fewer than RW_RESET_MAILS_PER_HOUR reset mails in the last hour, stores
+ * the SHA-256 of a random single-use token and queues the mail in the same transaction. The
+ * person's row is locked meanwhile, so simultaneous requests cannot slip past the limit.
  */
 export async function requestPasswordReset(deps: AuthDeps, _actor: Anonymous, input: ResetRequestBody): Promise<void> {
-  const { config, clock } = deps;
+  const { config } = deps;
   const { email } = input;
   const log = deps.logger;
-  await deps.sequelize.transaction(async (transaction) => {
-    const user = await findUserByEmail(email, transaction);
+  // READ COMMITTED: the count below must see a reset that a simultaneous request committed while
+  // this one waited for the row lock (REPEATABLE READ would count from an older snapshot).
+  await deps.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
+    const found = await findUserByEmail(email, transaction);
+    const user = found && (await findUser(found.id, transaction, true));
     if (!user || user.disabled) {
       log?.info({ event: 'password_reset_unknown', email }, 'password reset asked for an unknown or disabled account');
       return;
     }
+    const at = now(deps);
+    const recent = await PasswordReset.count({
+      where: { userId: user.id, createdAt: { [Op.gt]: new Date(at.getTime() - RESET_MAIL_WINDOW_MS) } },
+      transaction,
+    });
+    if (recent >= config.RW_RESET_MAILS_PER_HOUR) {
+      log?.warn({ event: 'password_reset_limited', userId: user.id, recent }, 'password reset mail not sent: hourly limit for this address reached');
+      return;
+    }
     const token = randomBytes(32).toString('base64url');
     const minutes = config.RW_RESET_TOKEN_MINUTES;
-    const now = clock();
     await PasswordReset.create(
-      { userId: user.id, tokenHash: hashResetToken(token), expiresAt: new Date(now.getTime() + minutes * 60_000), usedAt: null, createdAt: now },
+      { userId: user.id, tokenHash: hashResetToken(token), expiresAt: new Date(at.getTime() + minutes * 60_000), usedAt: null, createdAt: at },
       { transaction },
     );
     const link = `${config.RW_PUBLIC_URL.replace(/\/$/, '')}/reset-password?token=${encodeURIComponent(token)}`;
     const mail = passwordResetMail({ clubName: await readClubName(transaction), displayName: user.displayName, link, minutes });
-    await enqueueMail(transaction, { kind: 'password_reset', to: user.email, ...mail }, now);
+    await enqueueMail(transaction, { kind: 'password_reset', to: user.email, ...mail }, at);
     log?.info({ event: 'password_reset_requested', userId: user.id }, 'password reset mail queued');
   });
 }

@@ -3,11 +3,18 @@
 import { test, after, mock } from 'node:test';
 import assert from 'node:assert/strict';
 import type { Response } from 'supertest';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import { anonymous, createUser, setupTestApp, signIn, type TestApp } from '../../../test/helpers';
 import { User } from '../users/user.model';
 
 let t: TestApp;
+// A stand-in for the built client: the static files and the single-page fallback get the headers too.
+const dist = mkdtempSync(path.join(tmpdir(), 'rw-dist-'));
+writeFileSync(path.join(dist, 'index.html'), '<!doctype html><title>Rigwright</title>');
 after(async () => {
+  rmSync(dist, { recursive: true, force: true });
   mock.restoreAll();
   await t?.close();
 });
@@ -22,10 +29,23 @@ function assertSecurityHeaders(res: Response, label: string) {
   assert.equal(res.headers['x-powered-by'], undefined, label);
   assert.equal(res.headers['cache-control'], 'no-store', label);
   assert.match(String(res.headers['content-type']), /^application\/json/, label);
+  assertPermissionsPolicy(res, label);
 }
 
-test('headers on 200, 401, 403, 404, 400 (bad JSON) and 500 answers', async () => {
-  t = await setupTestApp();
+/** Features the app does not use are off; Web Serial stays on for our own origin (the Flasher). */
+function assertPermissionsPolicy(res: Response, label: string) {
+  const policy = String(res.headers['permissions-policy'] ?? '');
+  const directives = new Map(policy.split(/,\s*/).map((d) => d.split('=') as [string, string]));
+  for (const feature of ['camera', 'microphone', 'geolocation', 'payment', 'usb', 'hid', 'midi', 'display-capture']) {
+    assert.equal(directives.get(feature), '()', `${label}: Permissions-Policy turns ${feature} off (got ${policy})`);
+  }
+  assert.equal(directives.get('serial'), '(self)', `${label}: Web Serial stays on for our own origin`);
+  // Structured-field syntax (RFC 8941 dictionary): name=(allowlist), comma separated, nothing else.
+  assert.match(policy, /^[a-z-]+=\((self)?\)(, [a-z-]+=\((self)?\))*$/, label);
+}
+
+test('headers on 200, 401, 403, 404, 400 (bad JSON) and 500 answers, and on the client\'s pages', async () => {
+  t = await setupTestApp({ RW_CLIENT_DIST: dist });
   await createUser(t.sequelize, { email: 'ada.pell@kestrelfen.example', password: 'curlew over the flats', roles: ['member'] });
   const anon = await anonymous(t.app);
   const member = await signIn(t.app, 'ada.pell@kestrelfen.example', 'curlew over the flats');
@@ -47,6 +67,14 @@ test('headers on 200, 401, 403, 404, 400 (bad JSON) and 500 answers', async () =
   assert.deepEqual(Object.keys(bad.body), ['error']);
   assert.equal(bad.body.error.code, 'invalid_json');
   assert.equal(typeof bad.body.error.message, 'string');
+
+  // The client's pages (static file and single-page fallback) carry the same policy.
+  for (const page of ['/', '/board', '/index.html']) {
+    const html = await anon.get(page).expect(200);
+    assert.match(String(html.headers['content-type']), /^text\/html/);
+    assertPermissionsPolicy(html, page);
+    assert.ok(String(html.headers['content-security-policy']).includes("frame-ancestors 'none'"), page);
+  }
 
   const invalid = await anon.post('/api/auth/sign-in', { email: 'ada.pell@kestrelfen.example' }).expect(400);
   assert.equal(invalid.body.error.code, 'validation_failed');

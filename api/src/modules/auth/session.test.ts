@@ -4,6 +4,7 @@ import { test, after } from 'node:test';
 import assert from 'node:assert/strict';
 import jwt from 'jsonwebtoken';
 import { QueryTypes } from 'sequelize';
+import { backgroundWork } from '../../background';
 import { anonymous, createUser, setupTestApp, signIn, tableCounts, type TestApp, type TestClient } from '../../../test/helpers';
 
 const apps: TestApp[] = [];
@@ -183,6 +184,7 @@ test('password reset: 202 always; one outbox mail with a single-use link; confir
   const unknown = await anon.post('/api/auth/password-reset/request', { email: 'nobody@kestrelfen.example' }).expect(202);
   const known = await anon.post('/api/auth/password-reset/request', { email: TECH.email.toUpperCase() }).expect(202);
   assert.deepEqual(unknown.body, known.body);
+  await backgroundWork.idle(); // the work behind the answer
 
   const mails = await t.sequelize.query<{ kind: string; to_address: string; subject: string; text_body: string; status: string }>(
     'SELECT kind, to_address, subject, text_body, status FROM outbox',
@@ -209,6 +211,7 @@ test('password reset: 202 always; one outbox mail with a single-use link; confir
 
   // An expired token is refused.
   await anon.post('/api/auth/password-reset/request', { email: TECH.email }).expect(202);
+  await backgroundWork.idle();
   const [second] = await t.sequelize.query<{ text_body: string }>('SELECT text_body FROM outbox ORDER BY id DESC LIMIT 1', { type: QueryTypes.SELECT });
   const token2 = /token=([\w-]+)/.exec(second!.text_body)![1]!;
   await t.sequelize.query('UPDATE password_resets SET expires_at = ? WHERE used_at IS NULL', { replacements: [new Date(Date.now() - 1000)] });

@@ -7,7 +7,8 @@ import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import type { Request } from 'express';
 import { anonymous, createUser, setupTestApp, signIn, type TestApp } from '../../../test/helpers';
-import { accountAddressKey } from './throttle';
+import type { Options } from 'express-rate-limit';
+import { SqlRateLimitStore, accountAddressKey } from './throttle';
 
 const apps: TestApp[] = [];
 after(async () => {
@@ -252,4 +253,28 @@ test('sign-in still works for a signed-in client switching accounts', async () =
   const res = await c.post('/api/auth/sign-in', { email: 'wren@kestrelfen.example', password: 'reed warbler song' }).expect(200);
   assert.deepEqual(res.body.user.roles, ['technician']);
   assert.equal((await c.get('/api/auth/session')).body.user.email, 'wren@kestrelfen.example');
+});
+
+test('throttle counters: a fixed window by the clock, shared by every store on the table (every replica)', async () => {
+  const t = await app();
+  let ms = Date.parse('2026-03-14T19:30:00Z');
+  const clock = () => new Date(ms);
+  const windowMs = 15 * 60_000;
+  const a = new SqlRateLimitStore(t.sequelize, 'window-test', clock);
+  const b = new SqlRateLimitStore(t.sequelize, 'window-test', clock); // a second replica
+  for (const store of [a, b]) store.init({ windowMs } as Options);
+
+  assert.equal((await a.increment('198.51.100.7')).totalHits, 1);
+  assert.equal((await b.increment('198.51.100.7')).totalHits, 2, 'the other replica counts on the same row');
+  ms += windowMs - 1000; // one second before the window closes
+  const late = await a.increment('198.51.100.7');
+  assert.equal(late.totalHits, 3);
+  assert.equal(late.resetTime?.getTime(), Date.parse('2026-03-14T19:45:00Z'), 'the window is fixed from the first hit');
+  assert.equal((await b.get('198.51.100.7'))?.totalHits, 3);
+  ms += 2000; // one second after
+  assert.equal(await b.get('198.51.100.7'), undefined, 'an expired window counts nothing');
+  const fresh = await b.increment('198.51.100.7');
+  assert.equal(fresh.totalHits, 1, 'a new window starts');
+  assert.equal(fresh.resetTime?.getTime(), ms + windowMs);
+  assert.equal((await a.increment('203.0.113.9')).totalHits, 1, 'another address has its own count');
 });

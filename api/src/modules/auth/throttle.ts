@@ -26,6 +26,8 @@ export class SqlRateLimitStore implements Store {
   constructor(
     private readonly sequelize: Sequelize,
     readonly prefix: string,
+    /** The time now; tests pass their own clock to cross a window without waiting. */
+    private readonly clock: () => Date = () => new Date(),
   ) {}
 
   init(options: Options): void {
@@ -39,13 +41,13 @@ export class SqlRateLimitStore implements Store {
   async get(key: string): Promise<ClientRateLimitInfo | undefined> {
     const rows = await this.sequelize.query<{ hits: number; reset_at: Date }>(
       'SELECT hits, reset_at FROM rate_limits WHERE rl_key = ? AND reset_at > ?',
-      { replacements: [this.rowKey(key), new Date()], type: QueryTypes.SELECT },
+      { replacements: [this.rowKey(key), this.clock()], type: QueryTypes.SELECT },
     );
     return rows[0] ? { totalHits: Number(rows[0].hits), resetTime: new Date(rows[0].reset_at) } : undefined;
   }
 
   async increment(key: string): Promise<ClientRateLimitInfo> {
-    const now = new Date();
+    const now = this.clock();
     const resetAt = new Date(now.getTime() + this.windowMs);
     const rowKey = this.rowKey(key);
     // MariaDB applies the assignments left to right: `hits` is decided on the old reset_at.
@@ -67,7 +69,7 @@ export class SqlRateLimitStore implements Store {
 
   async decrement(key: string): Promise<void> {
     await this.sequelize.query('UPDATE rate_limits SET hits = hits - 1 WHERE rl_key = ? AND hits > 0 AND reset_at > ?', {
-      replacements: [this.rowKey(key), new Date()],
+      replacements: [this.rowKey(key), this.clock()],
     });
   }
 

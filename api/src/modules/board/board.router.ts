@@ -3,12 +3,13 @@ import { Router } from 'express';
 import { z } from 'zod';
 import type { AppDeps } from '../../deps';
 import { parseInput } from '../../errors';
+import { idSchema } from '../../schemas';
 import { requireRole } from '../auth/guards';
 import { createBoardReader } from './board.service';
 
 const boardQuerySchema = z.object({
   technician: z
-    .union([z.literal('none'), z.coerce.number().int().positive()], 'Choose a technician by id, or none.')
+    .union([z.literal('none'), idSchema], 'Choose a technician by id (plain digits), or none.')
     .optional()
     .or(z.literal('').transform(() => undefined)),
   q: z

@@ -193,7 +193,8 @@ describe('GET /api/tickets and /api/tickets/:tag (visibility)', () => {
     await member.get(`/api/tickets/${mine.tag}`).expect(200);
     await treasurer.get(`/api/tickets/${theirs.tag}`).expect(200);
     await member.get('/api/tickets/RW-9999').expect(404);
-    await member.get('/api/tickets/not-a-tag').expect(404);
+    await member.get('/api/tickets/not-a-tag').expect(400); // not shaped like a tag: refused at the edge
+    await member.get('/api/tickets/RW-00042').expect(404); // shaped like one, but not its spelling
     const anon = await anonymous(t.app);
     await anon.get('/api/tickets').expect(401);
     await anon.get(`/api/tickets/${mine.tag}`).expect(401);

@@ -3,7 +3,7 @@ import { Router } from 'express';
 import type { AppDeps } from '../../deps';
 import { parseInput } from '../../errors';
 import { currentUser, requireRole, requireSignedIn } from '../auth/guards';
-import { intakeSchema, listQuerySchema, moveSchema } from './tickets.schemas';
+import { intakeSchema, listQuerySchema, moveSchema, ticketPathParams } from './tickets.schemas';
 import { getTicketDetail, listTickets, moveTicket, openTicket } from './tickets.service';
 
 export function createTicketsRouter(deps: Pick<AppDeps, 'sequelize' | 'config' | 'clock'>): Router {
@@ -21,12 +21,14 @@ export function createTicketsRouter(deps: Pick<AppDeps, 'sequelize' | 'config' |
   });
 
   router.get('/:tag', async (req, res) => {
-    res.json(await getTicketDetail(deps, currentUser(req), { tag: String(req.params.tag) }));
+    const { tag } = parseInput(ticketPathParams, req.params);
+    res.json(await getTicketDetail(deps, currentUser(req), { tag }));
   });
 
   router.post('/:tag/moves', requireRole('technician', 'admin'), async (req, res) => {
+    const { tag } = parseInput(ticketPathParams, req.params);
     const input = parseInput(moveSchema, req.body);
-    res.json(await moveTicket(deps, currentUser(req), { tag: String(req.params.tag), ...input }));
+    res.json(await moveTicket(deps, currentUser(req), { tag, ...input }));
   });
 
   return router;

@@ -3,7 +3,7 @@
 import { z } from 'zod';
 import { STATES } from '../../domain/workflow';
 import { EQUIPMENT_KINDS } from '../../contracts/tickets';
-import { SINGLE_LINE, SINGLE_LINE_MESSAGE } from '../../schemas';
+import { SINGLE_LINE, SINGLE_LINE_MESSAGE, queryInt } from '../../schemas';
 
 
 const optionalText = (max: number, message: string, singleLine = true) =>
@@ -69,11 +69,20 @@ export const LIST_SORTS = ['tag', 'createdAt', 'state', 'stateSince'] as const;
 
 // Query strings are not strict: a cache-busting parameter must not break a list.
 export const listQuerySchema = z.object({
-  page: z.coerce.number().int().min(1).max(100_000).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  page: queryInt(1, 100_000, 1),
+  pageSize: queryInt(1, 100, 25),
   sort: z.enum(LIST_SORTS).default('createdAt'),
   dir: z.enum(['asc', 'desc']).default('desc'),
   q: z.string().trim().max(100).optional(),
   state: z.enum(STATES).optional(),
 });
 export type ListQuery = z.infer<typeof listQuerySchema>;
+
+/**
+ * The tag in /api/tickets/:tag: RW- and plain digits (no sign, hex, exponent or fraction), or 400.
+ * A well-formed tag that is not the canonical spelling (RW-00042) or names no ticket you can see
+ * is 404, decided by the service.
+ */
+export const ticketPathParams = z.strictObject({
+  tag: z.string().max(24, 'A tag looks like RW-0042.').regex(/^RW-[0-9]{1,10}$/i, 'A tag looks like RW-0042.'),
+});

@@ -1,6 +1,7 @@
 // Request bodies and queries of the admin accounts routes. Strict objects: no mass assignment.
 import { z } from 'zod';
 import { ROLES } from '../../contracts/accounts';
+import { idSchema, queryInt } from '../../schemas';
 import { callSign, displayName, email, passwordInput } from '../auth/auth.schemas';
 
 const roles = z
@@ -28,14 +29,14 @@ export const patchUserBody = z
 export const USER_SORTS = ['email', 'displayName', 'createdAt'] as const;
 
 export const listUsersQuery = z.strictObject({
-  page: z.coerce.number().int().min(1).max(100_000).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  page: queryInt(1, 100_000, 1),
+  pageSize: queryInt(1, 100, 25),
   sort: z.enum(USER_SORTS).default('displayName'),
   dir: z.enum(['asc', 'desc']).default('asc'),
   q: z.string().trim().max(100).optional(),
 });
 
-export const userIdParam = z.strictObject({ id: z.coerce.number().int().min(1).max(4_294_967_295) });
+export const userIdParam = z.strictObject({ id: idSchema });
 
 export type CreateUserBody = z.infer<typeof createUserBody>;
 export type PatchUserBody = z.infer<typeof patchUserBody>;
