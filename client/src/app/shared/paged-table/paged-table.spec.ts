@@ -83,7 +83,8 @@ class Host {
   }
 }
 
-describe('PagedTable', () => {
+// Harness steps each wait for the table to settle; on a loaded 2-core machine that can pass 5 s.
+describe('PagedTable', { timeout: 30_000 }, () => {
   let fixture: ComponentFixture<Host>;
   let host: Host;
   let loader: HarnessLoader;
