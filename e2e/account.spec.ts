@@ -37,11 +37,20 @@ test('register, forget the password, reset it by the e-mailed link (once), sign 
   await page.goto(path);
   await page.getByLabel('New password').fill('another fresh passphrase');
   await page.getByRole('button', { name: 'Save the new password' }).click();
+  await expect(page.getByRole('alert')).toContainText('This link has expired or was already used.');
+  await expect(page.getByRole('link', { name: 'Ask for a new link' })).toBeVisible();
   await expect(page.getByText(/password is changed/i)).toHaveCount(0);
-  await expect(page.getByRole('alert').first()).toBeVisible();
 
   await signIn(page, { email, password: 'reed bed receiver 7' });
   await expect(page).toHaveURL(/\/tickets/);
+});
+
+test('the reset page opened without the e-mailed token says so before any form', async ({ page }) => {
+  await page.goto('/reset-password');
+  await expect(page.getByRole('alert')).toContainText('this address has no token in it');
+  await expect(page.getByLabel('New password')).toHaveCount(0);
+  await page.getByRole('link', { name: 'Ask for a new link' }).click();
+  await expect(page).toHaveURL(/\/forgot-password/);
 });
 
 test('a wrong password is refused with a message and no session', async ({ page }) => {

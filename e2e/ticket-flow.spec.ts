@@ -42,9 +42,12 @@ test('hand in equipment, move it on the Bench board, owner is e-mailed', async (
   const mail = await waitForMail(DEMO.member.email, new RegExp(`${tag}.*Diagnosis|Diagnosis.*${tag}`));
   expect(mail.subject).toContain(tag!);
 
-  // The member's ticket page shows the move in its timeline.
+  // The member's ticket page shows the move as its own timeline row: who moved it, from where, to where.
   await memberPage.goto(`/tickets/${tag}`);
-  await expect(memberPage.getByText(/Diagnosis/).first()).toBeVisible();
+  const rows = memberPage.locator('.timeline').getByRole('listitem');
+  await expect(rows).toHaveCount(2);
+  await expect(rows.nth(0)).toContainText(/Perrin Sallow\s+opened the ticket/);
+  await expect(rows.nth(1)).toContainText(/Tobin Marsh\s+moved it\s+from Intake\s+to Diagnosis/);
 });
 
 test('a refused move puts the card back and says why', async ({ page }) => {

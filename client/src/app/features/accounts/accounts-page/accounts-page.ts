@@ -1,23 +1,23 @@
-import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { DatePipe, NgTemplateOutlet } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, signal, viewChild } from '@angular/core';
+import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { MatPaginatorModule, PageEvent } from '@angular/material/paginator';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { MatSortModule, Sort } from '@angular/material/sort';
+import { MatMenuModule } from '@angular/material/menu';
+import { MatSortModule } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { debounceTime, distinctUntilChanged, map } from 'rxjs';
 import { ROLE_LABELS } from '../../../core/auth/auth.models';
 import { SessionStore } from '../../../core/auth/session-store';
 import { Notifier } from '../../../core/notifier';
+import { PageLoader, PagedTable, PagedTableEmpty } from '../../../shared/paged-table/paged-table';
 import { AccountApi } from '../account-api';
 import { AccountDialog, AccountDialogData } from '../account-dialog/account-dialog';
-import { AccountQuery, AccountSort, UserRow } from '../account.models';
+import { AccountSort, UserRow } from '../account.models';
 
 /** Accounts: who may sign in, with which roles. */
 @Component({
@@ -25,14 +25,16 @@ import { AccountQuery, AccountSort, UserRow } from '../account.models';
   imports: [
     ReactiveFormsModule,
     DatePipe,
+    NgTemplateOutlet,
+    PagedTable,
+    PagedTableEmpty,
     MatTableModule,
     MatSortModule,
-    MatPaginatorModule,
     MatFormFieldModule,
     MatInputModule,
     MatIconModule,
     MatButtonModule,
-    MatProgressBarModule,
+    MatMenuModule,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './accounts-page.html',
@@ -43,39 +45,25 @@ export class AccountsPage {
   private readonly dialog = inject(MatDialog);
   private readonly notifier = inject(Notifier);
   protected readonly session = inject(SessionStore);
+  private readonly table = viewChild.required<PagedTable<UserRow>>(PagedTable);
 
-  protected readonly columns = ['displayName', 'email', 'callSign', 'roles', 'status', 'createdAt', 'actions'];
+  protected readonly columns = ['displayName', 'email', 'roles', 'status', 'createdAt', 'actions'];
+  protected readonly phoneColumns = ['summary', 'menu'];
   protected readonly search = inject(NonNullableFormBuilder).control('');
-  protected readonly query = signal<AccountQuery>({ page: 1, pageSize: 25, sort: 'displayName', dir: 'asc', q: '' });
-  protected readonly accounts = rxResource({
-    params: () => this.query(),
-    stream: ({ params }) => this.api.list(params),
+  /** The search as sent: trimmed, and only once the person pauses typing. */
+  protected readonly searchText = toSignal(
+    this.search.valueChanges.pipe(debounceTime(300), map((q) => q.trim()), distinctUntilChanged(), takeUntilDestroyed()),
+    { initialValue: '' },
+  );
+  /** A new search makes a new loader, and the table starts again at page 1. */
+  protected readonly load = computed<PageLoader<UserRow>>(() => {
+    const q = this.searchText();
+    return ({ sort, ...page }) => this.api.list({ ...page, sort: sort as AccountSort | undefined, q });
   });
-  protected readonly rows = computed<UserRow[]>(() => (this.accounts.hasValue() ? this.accounts.value().items : []));
-  protected readonly total = computed(() => (this.accounts.hasValue() ? this.accounts.value().total : 0));
   protected readonly busyId = signal<UserRow['id'] | null>(null);
-
-  constructor() {
-    this.search.valueChanges
-      .pipe(debounceTime(300), map((q) => q.trim()), distinctUntilChanged(), takeUntilDestroyed())
-      .subscribe((q) => this.query.update((query) => ({ ...query, q, page: 1 })));
-  }
 
   protected roleNames(row: UserRow): string {
     return row.roles.map((r) => ROLE_LABELS[r] ?? r).join(', ');
-  }
-
-  protected sorted(sort: Sort): void {
-    this.query.update((q) => ({
-      ...q,
-      page: 1,
-      sort: sort.direction ? (sort.active as AccountSort) : 'displayName',
-      dir: sort.direction || 'asc',
-    }));
-  }
-
-  protected paged(event: PageEvent): void {
-    this.query.update((q) => ({ ...q, page: event.pageIndex + 1, pageSize: event.pageSize }));
   }
 
   protected create(): void {
@@ -93,7 +81,7 @@ export class AccountsPage {
       .subscribe((row) => {
         if (!row) return;
         done(row);
-        this.accounts.reload();
+        this.table().reload();
       });
   }
 
@@ -107,7 +95,7 @@ export class AccountsPage {
       next: (saved) => {
         this.busyId.set(null);
         this.notifier.info(saved.disabled ? `${saved.displayName} can no longer sign in.` : `${saved.displayName} can sign in again.`);
-        this.accounts.reload();
+        this.table().reload();
       },
       error: () => this.busyId.set(null),
     });
