@@ -39,6 +39,12 @@ const schema = z.object({
   RW_ARGON2_PARALLELISM: z.coerce.number().int().min(1).max(8).default(1),
   /** Password-reset links stay valid this long (single use). */
   RW_RESET_TOKEN_MINUTES: z.coerce.number().int().min(5).max(24 * 60).default(60),
+  /** Uploads (firmware images) live under this folder, one subfolder per database; never inside the client's folder. */
+  RW_STORAGE_DIR: z.string().min(1).default('.local/storage'),
+  /** Largest firmware image accepted (bytes; 16 MiB by default). */
+  RW_FIRMWARE_MAX_BYTES: z.coerce.number().int().min(1024).max(1024 * 1024 * 1024).default(16 * 1024 * 1024),
+  /** Largest serial log accepted with a flash attempt (bytes; 256 KiB by default). */
+  RW_SERIAL_LOG_MAX_BYTES: z.coerce.number().int().min(1024).max(8 * 1024 * 1024).default(256 * 1024),
   RW_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

@@ -1,7 +1,7 @@
 // Ticket rules: intake, lists, detail with its timeline, and moves between lanes.
 // Services never see req/res: they take the signed-in person and parsed input, hold the
 // transactions, throw typed errors and return plain objects (the API's DTOs).
-import { QueryTypes, type Sequelize } from 'sequelize';
+import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { Config } from '../../config';
 import { ConflictError, ForbiddenError, NotFoundError, RuleError } from '../../errors';
 import { checkMove, isState, STATE_LABELS, STATES, type MoveFacts, type TicketState } from '../../domain/workflow';
@@ -14,6 +14,7 @@ import type { EquipmentKind, EventKind, MoveOption, TicketDetail, TicketEventDto
 import { Ticket, TicketEvent } from './ticket.model';
 import { formatTag, parseTag } from './tag';
 import { ticketSearchSql } from './ticket-search';
+import { hasVerifiedFlash } from '../firmware/flash-attempts.service';
 import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
 
 export interface TicketsDeps {
@@ -38,15 +39,22 @@ function ticketLink(config: TicketsDeps['config'], tag: string): string {
   return `${config.RW_PUBLIC_URL.replace(/\/$/, '')}/tickets/${tag}`;
 }
 
+/** Facts the guards need that other features record in their own tables. */
+export type RecordedFacts = Pick<MoveFacts, 'hasVerifiedFlash'>;
+
+export async function recordedFactsOf(sequelize: Sequelize, ticketId: number, transaction?: Transaction): Promise<RecordedFacts> {
+  return { hasVerifiedFlash: await hasVerifiedFlash(sequelize, ticketId, transaction) };
+}
+
 /**
- * The facts the workflow guards need. Flash attempts, test sheets and fees arrive with later
- * features; until then they are false, so the moves that need them are refused with the reason.
+ * The facts the workflow guards need. Test sheets and fees arrive with later features; until then
+ * they are false, so the moves that need them are refused with the reason.
  */
-export function moveFactsOf(ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'awaitingApproval'>): MoveFacts {
+export function moveFactsOf(ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'awaitingApproval'>, recorded: RecordedFacts): MoveFacts {
   return {
     state: ticket.state,
     reflashConsent: ticket.reflashConsent,
-    hasVerifiedFlash: false,
+    hasVerifiedFlash: recorded.hasVerifiedFlash,
     hasPassedTestSheet: false,
     hasFailedTestSheet: false,
     readyToClose: false,
@@ -213,8 +221,8 @@ async function findVisibleTicket(deps: TicketsDeps, user: SessionUser, tag: stri
   return ticket;
 }
 
-export function moveOptions(user: SessionUser, ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'awaitingApproval'>): MoveOption[] {
-  const facts = moveFactsOf(ticket);
+export function moveOptions(user: SessionUser, ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'awaitingApproval'>, recorded: RecordedFacts): MoveOption[] {
+  const facts = moveFactsOf(ticket, recorded);
   const canMove = movesTickets(user);
   return STATES.map((to): MoveOption => {
     const check = checkMove(facts, to);
@@ -231,7 +239,7 @@ export function moveOptions(user: SessionUser, ticket: Pick<Ticket, 'state' | 'r
 
 export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, tag: string): Promise<TicketDetail> {
   const ticket = await findVisibleTicket(deps, user, tag);
-  const [events, technician] = await Promise.all([
+  const [events, technician, recorded] = await Promise.all([
     deps.sequelize.query<{
       id: number | string;
       created_at: Date;
@@ -251,6 +259,7 @@ export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, tag:
           type: QueryTypes.SELECT,
         })
       : Promise.resolve([]),
+    recordedFactsOf(deps.sequelize, ticket.id),
   ]);
   return toDetail(ticket, technician[0]?.display_name ?? null, events.map((e) => ({
     id: Number(e.id),
@@ -260,7 +269,7 @@ export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, tag:
     fromState: e.from_state,
     toState: e.to_state,
     note: e.note,
-  })), moveOptions(user, ticket));
+  })), moveOptions(user, ticket, recorded));
 }
 
 function toDetail(ticket: Ticket, technicianName: string | null, events: TicketEventDto[], moves: MoveOption[]): TicketDetail {
@@ -308,7 +317,7 @@ export async function moveTicket(deps: TicketsDeps, user: SessionUser, tag: stri
     if (!current) throw new NotFoundError(`There is no ticket ${formatTag(ticket.id)}.`, 'ticket_not_found');
     if (current.version !== input.version) throw new ConflictError('stale_version', STALE_VERSION_MESSAGE);
 
-    const check = checkMove(moveFactsOf(current), input.to, input.note);
+    const check = checkMove(moveFactsOf(current, await recordedFactsOf(sequelize, current.id, transaction)), input.to, input.note);
     if (!check.allowed) throw new RuleError('move_not_allowed', check.reason);
 
     const from: TicketState = current.state;
