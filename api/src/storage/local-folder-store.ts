@@ -27,7 +27,7 @@ export class LocalFolderStore implements BlobStore {
 
   stage(): StagedBlob {
     const tmp = path.join(this.staging, randomUUID());
-    const stream = createWriteStream(tmp, { flags: 'wx' });
+    const stream = createWriteStream(tmp, { flags: 'wx', highWaterMark: 256 * 1024 });
     let settled = false;
     return {
       stream,
