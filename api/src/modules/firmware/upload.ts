@@ -87,14 +87,16 @@ export function runUpload(middleware: RequestHandler, req: Request, res: Paramet
 }
 
 export function imageUploader(store: BlobStore, maxBytes: number): RequestHandler {
-  return multer({
+  // multer 2.5 passes highWaterMark and fileHwm to busboy; @types/multer does not list them yet.
+  const options: multer.Options & { highWaterMark?: number; fileHwm?: number } = {
     storage: new ChecksummingStorage(store),
     // Larger buffers than busboy's 16 KiB default: fewer, bigger chunks through the checksums
     // and the file (bench/upload.ts); still a bounded few hundred KiB per upload.
     highWaterMark: 256 * 1024,
     fileHwm: 256 * 1024,
     limits: { fileSize: maxBytes, files: 1, fields: 12, parts: 14, fieldSize: 8 * 1024, fieldNameSize: 100 },
-  }).single('image');
+  };
+  return multer(options).single('image');
 }
 
 export function serialLogUploader(maxBytes: number): RequestHandler {
