@@ -37,13 +37,14 @@ test('upload an image, record a failed then a verified flash attempt, move the t
   await page.goto('/firmware');
   await expect(page.getByRole('heading', { name: 'Firmware library' })).toBeVisible();
   await page.getByText('Upload an image').click();
+  const form = page.getByRole('region', { name: 'Upload an image' });
   await page.locator('#firmware-file').setInputFiles({ name: 'heron90-main-3.02.bin', mimeType: 'application/octet-stream', buffer: bytes });
-  await page.getByLabel('Equipment model').fill(model);
-  await page.getByLabel('Unit', { exact: true }).click();
+  await form.getByLabel('Equipment model').fill(model);
+  await form.getByRole('combobox', { name: 'Unit' }).click();
   await page.getByRole('option', { name: 'Main board' }).click();
-  await page.getByLabel('Version').fill('3.02');
-  await page.getByLabel('Where the file came from').fill('Invented for the browser test');
-  await page.getByRole('button', { name: /upload to the library/i }).click();
+  await form.getByLabel('Version').fill('3.02');
+  await form.getByLabel('Where the file came from').fill('Invented for the browser test');
+  await form.getByRole('button', { name: /upload to the library/i }).click();
   await expect(page.getByRole('progressbar', { name: 'Upload progress' })).toBeVisible();
   await page.screenshot({ path: `${SCREENSHOTS}/firmware-upload-progress.png`, fullPage: true });
   await expect(page.getByTestId('sha256')).toHaveText(sha256);
@@ -60,16 +61,16 @@ test('upload an image, record a failed then a verified flash attempt, move the t
   await expect(page.getByRole('button', { name: 'Move to Bench test' })).toBeDisabled();
 
   await page.getByLabel('Port').fill('/dev/ttyUSB0');
-  await page.getByRole('radio', { name: 'Transfer failed' }).check();
+  await page.getByRole('radio', { name: 'Transfer failed', exact: true }).check();
   await page.getByLabel('Failed at block').fill('1201');
   await expect(page.getByText('of 2400: 50 % of the image sent')).toBeVisible();
-  await page.getByLabel('Notes').fill('Supply dipped when the fan started.');
+  await page.getByRole('textbox', { name: 'Notes', exact: true }).fill('Supply dipped when the fan started.');
   await page.locator('#serial-log-file').setInputFiles({ name: 'minicom.txt', mimeType: 'text/plain', buffer: Buffer.from('Erase OK\nC\nBlock 1201 NAK\nTimeout, transfer aborted\n') });
   await page.getByRole('button', { name: 'Record attempt 1' }).click();
   await expect(page.getByText('Attempt 1 recorded: Transfer failed.')).toBeVisible();
   await expect(page.locator('[data-attempt="1"]')).toContainText('at block 1201 of 2400 (50 % sent)');
 
-  await page.getByRole('radio', { name: 'Verified running' }).check();
+  await page.getByRole('radio', { name: 'Verified running', exact: true }).check();
   await page.locator('#serial-log-file').setInputFiles({ name: 'minicom-2.txt', mimeType: 'text/plain', buffer: Buffer.from('Erase OK\nC\nTransfer complete\nBooting 3.02\n') });
   await page.getByRole('button', { name: 'Record attempt 2' }).click();
   await expect(page.getByText('Attempt 2 recorded: Verified running.')).toBeVisible();

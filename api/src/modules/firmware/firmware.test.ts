@@ -133,6 +133,8 @@ describe('POST /api/firmware', () => {
     assert.equal(res.headers['content-type'], 'application/octet-stream');
     assert.match(res.headers['content-disposition']!, /^attachment; filename="?Carrow-Teal-7-HF-6-m-transceiver_main_board_[^"/]+\.bin"?$/);
     assert.equal(res.headers['x-content-type-options'], 'nosniff');
+    assert.equal(res.headers['cache-control'], 'no-store');
+    assert.match(String(res.headers['content-security-policy']), /object-src 'none'/);
     assert.equal(res.headers['content-length'], String(bytes.length));
     assert.equal(res.headers['repr-digest'], `sha-256=:${createHash('sha256').update(bytes).digest('base64')}:`);
     // The client's file name is kept for display only, never as a path.
