@@ -80,6 +80,7 @@ test('upload an image, record a failed then a verified flash attempt, move the t
   await page.getByLabel('Search notes and serial logs').fill('NAK');
   await expect(page.locator('[data-attempt]')).toHaveCount(1);
   await expect(page.locator('[data-attempt="1"] .matches')).toContainText('Block 1201 NAK');
+  await expect(page.getByRole('button', { name: 'Record attempt 3' })).toBeVisible();
   await page.screenshot({ path: `${SCREENSHOTS}/flash-attempts.png`, fullPage: true });
 
   // The verified attempt releases the guard.

@@ -115,6 +115,8 @@ export interface FlashAttemptsView {
   canRecord: boolean;
   /** Why not, when canRecord is false. */
   reason: string | null;
+  /** The number the next attempt will get (attempts may be filtered by a search). */
+  nextNumber: number;
   attempts: FlashAttempt[];
   unitFirmware: UnitFirmware[];
 }

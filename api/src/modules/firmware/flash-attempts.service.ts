@@ -146,7 +146,7 @@ export async function listAttempts(deps: FlashAttemptDeps, tag: string, q?: stri
     search = ' AND (a.notes LIKE :like OR a.serial_log LIKE :like)';
     replacements.like = `%${escapeLike(q)}%`;
   }
-  const [attempts, units] = await Promise.all([
+  const [attempts, units, last] = await Promise.all([
     sequelize.query<AttemptRecord>(
       'SELECT a.number, a.unit, a.firmware_id, f.model AS f_model, f.version AS f_version, f.size AS f_size, f.sha256 AS f_sha256, ' +
         'f.withdrawn_at AS f_withdrawn_at, a.serial_port, a.baud, a.data_bits, a.parity, a.stop_bits, a.xmodem_block, a.xmodem_check, ' +
@@ -159,6 +159,10 @@ export async function listAttempts(deps: FlashAttemptDeps, tag: string, q?: stri
       'SELECT unit, version, firmware_id, attempt_number, updated_at FROM ticket_unit_firmware WHERE ticket_id = :id ORDER BY unit',
       { replacements: { id: ticket.id }, type: QueryTypes.SELECT },
     ),
+    sequelize.query<{ n: number | null }>('SELECT MAX(number) AS n FROM flash_attempts WHERE ticket_id = :id', {
+      replacements: { id: ticket.id },
+      type: QueryTypes.SELECT,
+    }),
   ]);
   const refusal = recordRefusal(ticket);
   return {
@@ -166,6 +170,7 @@ export async function listAttempts(deps: FlashAttemptDeps, tag: string, q?: stri
     reflashConsent: !!ticket.reflash_consent,
     canRecord: !refusal,
     reason: refusal?.message ?? null,
+    nextNumber: Number(last[0]?.n ?? 0) + 1,
     attempts: attempts.map((a) => toAttempt(a, q)),
     unitFirmware: units.map(
       (u): UnitFirmware => ({

@@ -163,6 +163,7 @@ describe('recording attempts', () => {
 
     const found = await tech.get(`/api/tickets/${tag}/flash-attempts?q=nak`).expect(200);
     assert.deepEqual(found.body.attempts.map((a: { number: number }) => a.number), [1]);
+    assert.equal(found.body.nextNumber, 3, 'the next number counts every attempt, not only the ones found');
     assert.deepEqual(found.body.attempts[0].logMatches, ['Block 212 NAK', 'Block 212 NAK']);
     const none = await tech.get(`/api/tickets/${tag}/flash-attempts?q=${encodeURIComponent('50%')}`).expect(200);
     assert.equal(none.body.attempts.length, 0);

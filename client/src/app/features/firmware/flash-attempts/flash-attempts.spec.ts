@@ -18,7 +18,7 @@ function ticket(extra: Partial<TicketDetail> = {}): TicketDetail {
   };
 }
 
-const emptyView: FlashAttemptsView = { tag: 'RW-0009', reflashConsent: true, canRecord: true, reason: null, attempts: [], unitFirmware: [] };
+const emptyView: FlashAttemptsView = { tag: 'RW-0009', reflashConsent: true, canRecord: true, reason: null, nextNumber: 1, attempts: [], unitFirmware: [] };
 const record: TrackRecord = {
   model: 'Fenwick Heron 100 HF transceiver',
   unit: 'main_board',
@@ -93,6 +93,7 @@ describe('FlashAttempts', () => {
     expect(body.get('failedAtBlock')).toBe('261');
     req.flush({
       ...emptyView,
+      nextNumber: 2,
       attempts: [{
         number: 1, unit: 'main_board', firmware: { id: 4, model: record.model, version: '2.11', size: 133_120, sha256: 'a'.repeat(64), withdrawn: false },
         serial: { port: 'COM3', baud: 115200, dataBits: 8, parity: 'none', stopBits: '1', block: 128, check: 'crc' }, outcome: 'transfer_failed',
