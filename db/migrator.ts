@@ -5,12 +5,14 @@ import type { QueryInterface, Sequelize } from 'sequelize';
 import * as m001 from './migrations/001-accounts';
 import * as m002 from './migrations/002-tickets';
 import * as m004 from './migrations/004-club-name';
+import * as m010 from './migrations/010-firmware';
 
 type Step = { up(qi: QueryInterface): Promise<void>; down(qi: QueryInterface): Promise<void> };
 const MIGRATIONS: [string, Step][] = [
   ['001-accounts', m001],
   ['002-tickets', m002],
   ['004-club-name', m004],
+  ['010-firmware', m010],
 ];
 
 export function createMigrator(sequelize: Sequelize, log = false) {

@@ -17,6 +17,7 @@ import * as s001 from './seeders/001-demo-accounts';
 import * as s002 from './seeders/002-demo-tickets';
 import * as s003 from './seeders/003-demo-club-settings';
 import { DEMO_CLUB_NAME } from './seeders/demo-club';
+import * as s004 from './seeders/004-demo-firmware';
 import { seedBoardLoad } from './seeders/board-load';
 
 export { seedBoardLoad };
@@ -26,6 +27,7 @@ const SEEDERS: [string, Seed][] = [
   ['001-demo-accounts', s001],
   ['002-demo-tickets', s002],
   ['003-demo-club-settings', s003],
+  ['004-demo-firmware', s004],
 ];
 
 export function createSeeder(sequelize: Sequelize, log = false) {

@@ -9,6 +9,8 @@ import type { Role } from './contracts/accounts';
 type Actor = 'anonymous' | 'owner' | 'otherMember' | 'technician' | 'treasurer' | 'admin';
 const ACTORS: Actor[] = ['anonymous', 'owner', 'otherMember', 'technician', 'treasurer', 'admin'];
 const SIGNED_IN: Actor[] = ['owner', 'otherMember', 'technician', 'treasurer', 'admin'];
+/** The Firmware library and flash attempts: technicians and admins only (members never, not even on their own ticket). */
+const BENCH: Actor[] = ['technician', 'admin'];
 
 /** Who gets past the access checks of each route; everyone else is refused (401, 403, or 404 for someone else's object). */
 const ACCESS: Record<string, Actor[]> = {
@@ -35,6 +37,17 @@ const ACCESS: Record<string, Actor[]> = {
   'GET /api/calc/attenuator': SIGNED_IN,
   'GET /api/calc/line-loss': SIGNED_IN,
   'GET /api/calc/discharge': SIGNED_IN,
+  'POST /api/firmware': BENCH,
+  'GET /api/firmware': BENCH,
+  'GET /api/firmware/models': BENCH,
+  'GET /api/firmware/track-record': BENCH,
+  'GET /api/firmware/:id': BENCH,
+  'POST /api/firmware/:id/known-good': BENCH,
+  'POST /api/firmware/:id/withdraw': BENCH,
+  'GET /api/firmware/:id/download': BENCH,
+  'GET /api/tickets/:tag/flash-attempts': BENCH,
+  'POST /api/tickets/:tag/flash-attempts': BENCH,
+  'GET /api/tickets/:tag/flash-attempts/:number/log': BENCH,
 };
 
 const PASSWORD = 'matrix-sweep-passphrase';
@@ -49,6 +62,7 @@ const ACCOUNTS: Record<Exclude<Actor, 'anonymous'>, Role[]> = {
 let t: TestApp;
 let ticketTag = '';
 let otherMemberId = 0;
+let firmwareId = 0;
 
 before(async () => {
   // Every request below signs in afresh; lift the per-address throttle for this sweep only.
@@ -69,6 +83,31 @@ before(async () => {
   });
   assert.equal(res.status, 201, res.text);
   ticketTag = res.body.tag;
+
+  // A firmware image and one flash attempt with a serial log, so the routes that name them have rows to find.
+  const tech = await client('technician');
+  let version = res.body.version;
+  for (const to of ['diagnosis', 'reflash']) {
+    const moved = await tech.post(`/api/tickets/${ticketTag}/moves`, { to, version });
+    assert.equal(moved.status, 200, moved.text);
+    version = moved.body.version;
+  }
+  const image = await tech
+    .post('/api/firmware')
+    .field('model', 'Matrix test transceiver')
+    .field('unit', 'main_board')
+    .field('version', '1.0')
+    .attach('image', Buffer.from('matrix sweep image bytes'), 'image.bin');
+  assert.equal(image.status, 201, image.text);
+  firmwareId = image.body.id;
+  const attempt = await tech
+    .post(`/api/tickets/${ticketTag}/flash-attempts`)
+    .field('unit', 'main_board')
+    .field('firmwareId', String(firmwareId))
+    .field('port', 'COM3')
+    .field('outcome', 'transfer_completed')
+    .attach('serialLog', Buffer.from('Erase OK\nTransfer complete\n'), 'log.txt');
+  assert.equal(attempt.status, 201, attempt.text);
 });
 
 after(() => t.close());
@@ -79,7 +118,8 @@ async function client(actor: Actor): Promise<TestClient> {
 }
 
 function urlFor(path: string): string {
-  return path.replace(':tag', ticketTag).replace(':id', String(otherMemberId));
+  const id = path.startsWith('/api/firmware/') ? firmwareId : otherMemberId;
+  return path.replace(':tag', ticketTag).replace(':id', String(id)).replace(':number', '1');
 }
 
 test('every registered API route has a row in the access matrix', () => {
@@ -108,7 +148,8 @@ for (const [route, allowed] of Object.entries(ACCESS)) {
         assert.ok(!refused, `${actor} was refused ${route} with ${res.status}: ${res.text}`);
         assert.ok(res.status < 500, `${actor} got ${res.status} from ${route}`);
       } else {
-        const expected = actor === 'anonymous' ? [401] : path.includes(':tag') && method === 'GET' ? [404] : [403];
+        // Someone else's ticket reads as "not found"; routes closed to a role answer 403 before looking.
+        const expected = actor === 'anonymous' ? [401] : path.includes(':tag') && method === 'GET' ? (allowed === BENCH ? [403] : [404]) : [403];
         assert.ok(expected.includes(res.status), `${actor} got ${res.status} from ${route}, expected ${expected.join(' or ')}`);
         assert.equal(typeof res.body?.error?.message, 'string', 'a refusal carries a message');
         assert.deepEqual(await tableSnapshot(t.sequelize), before, `${actor}'s refused ${route} changed the database`);

@@ -19,6 +19,8 @@ import { createUsersRouter } from './modules/users/users.router';
 import { createTicketsRouter } from './modules/tickets/tickets.router';
 import { createBoardRouter } from './modules/board/board.router';
 import { calcRouter } from './modules/calc/calc.router';
+import { createFirmwareRouter } from './modules/firmware/firmware.router';
+import { createFlashAttemptsRouter } from './modules/firmware/flash-attempts.router';
 
 export function createApp(init: AppDepsInit): express.Express {
   const deps = appDeps(init);
@@ -79,9 +81,11 @@ export function createApp(init: AppDepsInit): express.Express {
 
   app.use('/api/auth', createAuthRouter(deps));
   app.use('/api/users', createUsersRouter(deps));
+  app.use('/api/tickets/:tag/flash-attempts', createFlashAttemptsRouter(deps));
   app.use('/api/tickets', createTicketsRouter(deps));
   app.use('/api/board', createBoardRouter(deps));
   app.use('/api/calc', requireSignedIn, calcRouter);
+  app.use('/api/firmware', createFirmwareRouter(deps));
   app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route.', 'route_not_found')));
 
   // The built client, with the single-page fallback for its routes.

@@ -52,6 +52,12 @@ const schema = z.object({
    */
   RW_REQUEST_TIMEOUT_MS: z.coerce.number().int().min(1000).max(3_600_000).default(60_000),
   RW_HEADERS_TIMEOUT_MS: z.coerce.number().int().min(1000).max(600_000).default(15_000),
+  /** Uploads (firmware images) live under this folder, one subfolder per database; never inside the client's folder. */
+  RW_STORAGE_DIR: z.string().min(1).default('.local/storage'),
+  /** Largest firmware image accepted (bytes; 16 MiB by default). */
+  RW_FIRMWARE_MAX_BYTES: z.coerce.number().int().min(1024).max(1024 * 1024 * 1024).default(16 * 1024 * 1024),
+  /** Largest serial log accepted with a flash attempt (bytes; 256 KiB by default). */
+  RW_SERIAL_LOG_MAX_BYTES: z.coerce.number().int().min(1024).max(8 * 1024 * 1024).default(256 * 1024),
   RW_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

@@ -52,6 +52,11 @@ export const routes: Routes = [
     loadChildren: () => import('./features/board/board.routes').then((m) => m.BOARD_ROUTES),
   },
   {
+    path: 'firmware',
+    canActivate: [roleGuard('technician', 'admin')],
+    loadChildren: () => import('./features/firmware/firmware.routes').then((m) => m.FIRMWARE_ROUTES),
+  },
+  {
     path: 'admin/accounts',
     title: 'Accounts · Rigwright',
     canActivate: [roleGuard('admin')],

@@ -1,7 +1,7 @@
 // Ticket rules: intake, lists, detail with its timeline, and moves between lanes.
 // Services never see req/res: they take the signed-in person and parsed input, hold the
 // transactions, throw typed errors and return plain objects (the API's DTOs).
-import { Op, OptimisticLockError, type FindOptions, type InferAttributes, type Order, type WhereOptions } from 'sequelize';
+import { Op, OptimisticLockError, type FindOptions, type InferAttributes, type Order, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type { AppDeps } from '../../deps';
 import { ConflictError, ForbiddenError, NotFoundError, RuleError } from '../../errors';
 import { checkMove, isState, STATE_LABELS, STATES, type MoveFacts, type TicketState } from '../../domain/workflow';
@@ -17,6 +17,7 @@ import { Ticket, TicketEvent } from './ticket.model';
 import { formatTag, parseTag } from './tag';
 import { ticketMovedMail, ticketOpenedMail } from './ticket-mails';
 import { ticketSearchWhere } from './ticket-search';
+import { hasVerifiedFlash } from '../firmware/flash-attempts.service';
 import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
 
 export type TicketsDeps = Pick<AppDeps, 'sequelize' | 'config' | 'clock'>;
@@ -38,15 +39,22 @@ function ticketLink(config: TicketsDeps['config'], tag: string): string {
   return `${config.RW_PUBLIC_URL.replace(/\/$/, '')}/tickets/${tag}`;
 }
 
+/** Facts the guards need that other features record in their own tables. */
+export type RecordedFacts = Pick<MoveFacts, 'hasVerifiedFlash'>;
+
+export async function recordedFactsOf(sequelize: Sequelize, ticketId: number, transaction?: Transaction): Promise<RecordedFacts> {
+  return { hasVerifiedFlash: await hasVerifiedFlash(sequelize, ticketId, transaction) };
+}
+
 /**
- * The facts the workflow guards need. Flash attempts, test sheets and fees arrive with later
- * features; until then they are false, so the moves that need them are refused with the reason.
+ * The facts the workflow guards need. Test sheets and fees arrive with later features; until then
+ * they are false, so the moves that need them are refused with the reason.
  */
-export function moveFactsOf(ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'awaitingApproval'>): MoveFacts {
+export function moveFactsOf(ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'awaitingApproval'>, recorded: RecordedFacts): MoveFacts {
   return {
     state: ticket.state,
     reflashConsent: ticket.reflashConsent,
-    hasVerifiedFlash: false,
+    hasVerifiedFlash: recorded.hasVerifiedFlash,
     hasPassedTestSheet: false,
     hasFailedTestSheet: false,
     readyToClose: false,
@@ -173,8 +181,8 @@ async function findVisibleTicket(user: SessionUser, tag: string, options: Pick<F
   return ticket;
 }
 
-export function moveOptions(user: SessionUser, ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'awaitingApproval'>): MoveOption[] {
-  const facts = moveFactsOf(ticket);
+export function moveOptions(user: SessionUser, ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'awaitingApproval'>, recorded: RecordedFacts): MoveOption[] {
+  const facts = moveFactsOf(ticket, recorded);
   const canMove = movesTickets(user);
   return STATES.map((to): MoveOption => {
     const check = checkMove(facts, to);
@@ -201,6 +209,7 @@ export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, inpu
       ['events', 'id', 'ASC'],
     ],
   });
+  const recorded = await recordedFactsOf(deps.sequelize, ticket.id);
   const events = (ticket.events ?? []).map(
     (e): TicketEventDto => ({
       id: Number(e.id),
@@ -212,7 +221,7 @@ export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, inpu
       note: e.note,
     }),
   );
-  return toDetail(ticket, ticket.technician?.displayName ?? null, events, moveOptions(user, ticket));
+  return toDetail(ticket, ticket.technician?.displayName ?? null, events, moveOptions(user, ticket, recorded));
 }
 
 function toDetail(ticket: Ticket, technicianName: string | null, events: TicketEventDto[], moves: MoveOption[]): TicketDetail {
@@ -260,7 +269,7 @@ export async function moveTicket(deps: TicketsDeps, user: SessionUser, input: { 
     if (!current) throw new NotFoundError(`There is no ticket ${formatTag(ticket.id)}.`, 'ticket_not_found');
     if (current.version !== input.version) throw new ConflictError('stale_version', STALE_VERSION_MESSAGE);
 
-    const check = checkMove(moveFactsOf(current), input.to, input.note);
+    const check = checkMove(moveFactsOf(current, await recordedFactsOf(sequelize, current.id, transaction)), input.to, input.note);
     if (!check.allowed) throw new RuleError('move_not_allowed', check.reason);
 
     const from: TicketState = current.state;

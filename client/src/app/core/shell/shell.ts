@@ -25,6 +25,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/board', label: 'Bench board', icon: 'view_kanban', roles: ['technician', 'admin'] },
   { path: '/tickets', label: 'Tickets', icon: 'confirmation_number', roles: [] },
   { path: '/hand-in', label: 'Hand in equipment', icon: 'move_to_inbox', roles: ['member', 'technician', 'admin'] },
+  { path: '/firmware', label: 'Firmware library', icon: 'memory', roles: ['technician', 'admin'] },
   { path: '/calculators', label: 'Bench calculators', icon: 'calculate', roles: [] },
   { path: '/admin/accounts', label: 'Accounts', icon: 'manage_accounts', roles: ['admin'] },
 ];

@@ -17,6 +17,7 @@ import { AgePipe } from '../../../shared/age';
 import { Caution } from '../../../shared/caution/caution';
 import { equipmentKindLabel, stateLabel } from '../../../shared/labels';
 import { StateChip } from '../../../shared/state-chip/state-chip';
+import { FlashAttempts } from '../../firmware/flash-attempts/flash-attempts';
 import { TicketApi } from '../ticket-api';
 import { TicketDetail, MoveOption } from '../ticket.models';
 
@@ -30,6 +31,7 @@ import { TicketDetail, MoveOption } from '../ticket.models';
     AgePipe,
     StateChip,
     Caution,
+    FlashAttempts,
     MatCardModule,
     MatButtonModule,
     MatIconModule,
