@@ -4,7 +4,9 @@ import type { Sequelize } from 'sequelize';
 import { z } from 'zod';
 import { parseInput } from '../../errors';
 import { requireRole } from '../auth/guards';
+import type { Logger } from '../../logger';
 import { createBoardReader } from './board.service';
+import { BOARD_STREAM_DEFAULTS, createRevisionWatch, serveBoardStream, type BoardStreamOptions } from './board-events';
 
 const boardQuerySchema = z.object({
   technician: z
@@ -19,9 +21,23 @@ const boardQuerySchema = z.object({
     .transform((v) => (v ? v : undefined)),
 });
 
-export function createBoardRouter(deps: { sequelize: Sequelize }): Router {
+export interface BoardRouterOptions {
+  /** How often this process reads the board revision while event streams are open. */
+  revisionPollMs?: number;
+  stream?: Partial<BoardStreamOptions>;
+}
+
+export function createBoardRouter(deps: { sequelize: Sequelize; logger?: Logger }, options: BoardRouterOptions = {}): Router {
   const router = Router();
   const readBoard = createBoardReader(deps.sequelize);
+  // One watch per process (per app), shared by every open stream: one revision read per interval.
+  const watch = createRevisionWatch(deps.sequelize, { intervalMs: options.revisionPollMs ?? 1000, logger: deps.logger });
+  const streamOptions = { ...BOARD_STREAM_DEFAULTS, ...options.stream };
+
+  // Server-sent events: `event: revision` with `{ revision }` at once and after every board change.
+  router.get('/events', requireRole('technician', 'admin'), async (req, res) => {
+    await serveBoardStream(deps.sequelize, watch, req, res, streamOptions);
+  });
 
   router.get('/', requireRole('technician', 'admin'), async (req, res) => {
     const filters = parseInput(boardQuerySchema, req.query);

@@ -29,6 +29,7 @@ type CardRecord = {
   state: TicketState;
   state_since: Date;
   version: number;
+  technician_id: number | null;
   technician_name: string | null;
   awaiting_approval: number | boolean;
   parts_on_order: number | boolean;
@@ -50,7 +51,7 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
   }
   const rows = await sequelize.query<CardRecord>(
     'SELECT t.id, t.equipment_kind, t.make_model, t.owner_name, t.owner_call_sign, t.state, t.state_since, ' +
-      't.version, u.display_name AS technician_name, t.awaiting_approval, t.parts_on_order ' +
+      't.version, t.technician_id, u.display_name AS technician_name, t.awaiting_approval, t.parts_on_order ' +
       'FROM tickets t LEFT JOIN users u ON u.id = t.technician_id ' +
       `WHERE ${where.join(' AND ')} ORDER BY t.state_since ASC, t.id ASC`,
     { replacements, type: QueryTypes.SELECT, raw: true },
@@ -74,6 +75,7 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
       state: r.state,
       stateSince,
       version: r.version,
+      technicianId: r.technician_id,
       technicianName: r.technician_name,
       flags,
     };
