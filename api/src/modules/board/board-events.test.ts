@@ -94,6 +94,8 @@ describe('GET /api/board/events', () => {
       assert.equal(stream.res.headers.get('cache-control'), 'no-store');
       const first = await stream.nextRevision();
       assert.ok(first !== null && /^\d+$/.test(first), `revision ${first}`);
+      // The board read says which revision it is at, so a client can tell whether it is current.
+      assert.equal((await tech.get('/api/board').expect(200)).headers['x-board-revision'], first);
 
       const started = Date.now();
       await tech.post(`/api/tickets/${ticket.tag}/moves`, { to: 'diagnosis', version: 0 }).expect(200);

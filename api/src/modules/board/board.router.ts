@@ -45,6 +45,8 @@ export function createBoardRouter(deps: { sequelize: Sequelize; logger?: Logger 
     // Our own ETag (cheap) instead of Express hashing ~100 KiB per request; Express still answers
     // 304 to a matching If-None-Match.
     res.setHeader('ETag', board.etag);
+    // The revision this board is at (or newer): the live board compares it with the event stream's.
+    if (board.revision !== null) res.setHeader('X-Board-Revision', board.revision);
     res.type('application/json').send(board.body);
   });
 

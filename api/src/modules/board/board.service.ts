@@ -99,6 +99,8 @@ interface CacheEntry {
 export interface BoardBody {
   body: Buffer;
   etag: string;
+  /** The board revision read before the board was built (null while the settings row is missing). */
+  revision: string | null;
 }
 
 /**
@@ -122,7 +124,7 @@ export function createBoardReader(sequelize: Sequelize, options: { ttlMs?: numbe
 
   return async function readBoard(filters: BoardFilters): Promise<BoardBody> {
     const settings = await readBoardSettings(sequelize);
-    if (settings.revision === null) return build(filters, settings.waitLimitHours);
+    if (settings.revision === null) return { ...(await build(filters, settings.waitLimitHours)), revision: null };
     if (settings.revision !== cachedRevision) {
       cache.clear();
       cachedRevision = settings.revision;
@@ -130,7 +132,7 @@ export function createBoardReader(sequelize: Sequelize, options: { ttlMs?: numbe
     const key = `${settings.waitLimitHours}|${filters.technician ?? ''}|${filters.q ?? ''}`;
     const hit = cache.get(key);
     const now = Date.now();
-    if (hit && now - hit.at < ttlMs) return hit;
+    if (hit && now - hit.at < ttlMs) return { ...hit, revision: settings.revision };
     const entry = await build(filters, settings.waitLimitHours);
     // A write may have committed while we read; the next request sees the new revision and
     // rebuilds. Only cache under the revision we read before the board itself.
@@ -138,6 +140,6 @@ export function createBoardReader(sequelize: Sequelize, options: { ttlMs?: numbe
       if (cache.size >= maxEntries) cache.delete(cache.keys().next().value as string);
       cache.set(key, entry);
     }
-    return entry;
+    return { ...entry, revision: settings.revision };
   };
 }
