@@ -321,9 +321,11 @@ describe('BoardPage', () => {
       sources[0].revision('7');
       await fixture.whenStable();
       http.expectNone((r) => r.url === '/api/board');
+      expect(status()).toContain('Changes come in when you drop the card');
       fixture.componentInstance['dragEnded']();
       flushBoard(boardBody(), '7');
       await fixture.whenStable();
+      expect(status()).not.toContain('Changes come in');
     });
 
     it('live: says when the connection is lost and that it retries, and when it is back', async () => {

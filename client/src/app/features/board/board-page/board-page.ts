@@ -189,6 +189,8 @@ export class BoardPage {
   private latestRevision: string | null | undefined;
   /** A refresh waits for the drag in progress to end. */
   private refreshWanted = false;
+  /** Said on screen while a refresh waits for the drop. */
+  protected readonly changesWaiting = signal(false);
   /** Notes typed for a move that did not go through (e.g. 409), shown again on the next try. */
   private readonly drafts = new Map<string, string>();
   private jumpedFor = '';
@@ -247,11 +249,15 @@ export class BoardPage {
 
   /** Fetches the board again, unless a card is being dragged (then when the drop ends) or a fetch is under way (then after it). */
   private refresh(): void {
-    if (this.dragging() || this.board.isLoading()) {
-      this.refreshWanted = !!this.dragging() || this.refreshWanted;
+    if (this.dragging()) {
+      this.refreshWanted = true;
+      this.changesWaiting.set(true);
       return;
     }
     this.refreshWanted = false;
+    this.changesWaiting.set(false);
+    // A fetch under way: the effect above fetches again if it comes back older than the stream.
+    if (this.board.isLoading()) return;
     this.board.reload();
   }
 
