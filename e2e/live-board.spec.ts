@@ -12,12 +12,12 @@ async function openBoard(browser: Browser, who: { email: string; password: strin
   await page.goto('/board');
   await expect(page.locator('.live-status')).toContainText('Live');
   // Marks this document: a reload or navigation would lose it.
-  await page.evaluate(() => ((window as unknown as { rwNoReload: boolean }).rwNoReload = true));
+  await page.evaluate(() => ((globalThis as unknown as { rwNoReload: boolean }).rwNoReload = true));
   return page;
 }
 
 async function stillSameDocument(page: Page) {
-  expect(await page.evaluate(() => (window as unknown as { rwNoReload?: boolean }).rwNoReload)).toBe(true);
+  expect(await page.evaluate(() => (globalThis as unknown as { rwNoReload?: boolean }).rwNoReload)).toBe(true);
 }
 
 /** Hands a ticket in at the bench through the API, as the signed-in technician of `page`. */

@@ -3,6 +3,7 @@
 // ACCESS fails the first test, so new routes cannot slip past this sweep.
 import { after, before, test } from 'node:test';
 import assert from 'node:assert/strict';
+import type { IncomingMessage } from 'node:http';
 import { anonymous, createUser, registeredRoutes, setupTestApp, signIn, tableSnapshot, type TestApp, type TestClient } from '../test/helpers';
 import type { Role } from './contracts/accounts';
 
@@ -122,7 +123,8 @@ function streamSafeGet(c: TestClient, url: string) {
   return c
     .get(url)
     .buffer(true)
-    .parse((res, done) => {
+    .parse((response, done) => {
+      const res = response as unknown as IncomingMessage;
       const type = String(res.headers['content-type'] ?? '');
       let text = '';
       res.setEncoding('utf8');

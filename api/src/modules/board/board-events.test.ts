@@ -82,7 +82,7 @@ describe('GET /api/board/events', () => {
     assert.equal(res.body.error.code, 'forbidden');
     const anon = await fetch(`${base}/api/board/events`);
     assert.equal(anon.status, 401);
-    assert.equal((await anon.json()).error.code, 'not_signed_in');
+    assert.equal(((await anon.json()) as { error: { code: string } }).error.code, 'not_signed_in');
   });
 
   it('reports the revision at once, and a new one within a few seconds of a move', async () => {

@@ -54,7 +54,7 @@ describe('BoardCard', () => {
     expect(root.querySelector('.card-age')?.textContent?.trim()).toBe('3 h');
     expect(root.querySelector('.card-equipment')?.textContent?.trim()).toBe('Transceiver · Fenwick Heron 100');
     expect(root.querySelector('.card-owner')?.textContent).toContain('Q3PSW');
-    expect(root.querySelector('.card-owner')?.textContent).toContain('Tobin Marsh');
+    expect(root.querySelector('.card-tech')?.textContent).toContain('Technician: Tobin Marsh');
   });
 
   it('the menu button is named for the ticket and offers exactly the moves the workflow allows, then opening the ticket', async () => {
