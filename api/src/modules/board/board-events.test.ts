@@ -7,7 +7,8 @@ import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import { createUser, setupTestApp, signIn, truncateAll, type TestApp, type TestClient } from '../../../test/helpers';
 import { SESSION_COOKIE } from '../auth/tokens';
-import { createRevisionWatch } from './board-events';
+import express from 'express';
+import { createRevisionWatch, serveBoardStream } from './board-events';
 
 const PW = 'correct horse battery';
 let t: TestApp;
@@ -156,5 +157,28 @@ describe('the revision watch', () => {
     const after = watch.polls;
     await new Promise((r) => setTimeout(r, 300));
     assert.equal(watch.polls, after, 'no polling while no stream is open');
+  });
+});
+
+describe('one stream', () => {
+  it('says retry, sends a heartbeat comment, and ends after its maximum age with a reconnect notice', async () => {
+    const watch = createRevisionWatch(t.sequelize, { intervalMs: 100 });
+    const app = express();
+    app.get('/events', (req, res) => serveBoardStream(t.sequelize, watch, req, res, { heartbeatMs: 100, maxAgeMs: 450, retryMs: 2500 }));
+    const local = app.listen(0, '127.0.0.1');
+    await new Promise((resolve) => local.once('listening', resolve));
+    try {
+      const started = Date.now();
+      const res = await fetch(`http://127.0.0.1:${(local.address() as AddressInfo).port}/events`);
+      const text = await res.text(); // resolves when the server ends the stream
+      assert.ok(Date.now() - started >= 400, 'ended by its maximum age, not before');
+      assert.ok(text.startsWith('retry: 2500\n\n'), text);
+      assert.match(text, /^: still here$/m);
+      assert.ok(text.endsWith('event: reconnect\ndata: {}\n\n'), text);
+      assert.equal(watch.listeners, 0, 'the ended stream left the watch');
+    } finally {
+      local.closeAllConnections();
+      await new Promise((resolve) => local.close(resolve));
+    }
   });
 });

@@ -120,7 +120,8 @@ export async function serveBoardStream(
   };
   const unsubscribe = watch.subscribe(send);
   const heartbeat = setInterval(() => res.write(': still here\n\n'), options.heartbeatMs);
-  const maxAge = setTimeout(() => res.end(), options.maxAgeMs);
+  // Said before the planned end, so the browser's reconnect is not shown as a lost connection.
+  const maxAge = setTimeout(() => res.end('event: reconnect\ndata: {}\n\n'), options.maxAgeMs);
   const stop = () => {
     if (closed) return;
     closed = true;

@@ -34,7 +34,6 @@ export class BoardApi {
   revisions(): Observable<LiveSignal> {
     return new Observable<LiveSignal>((subscriber) => {
       const source = this.openEventSource('/api/board/events');
-      source.onopen = () => subscriber.next({ kind: 'open' });
       source.addEventListener('revision', (event) => {
         try {
           const data = JSON.parse((event as MessageEvent<string>).data) as { revision: string | null };
@@ -43,8 +42,17 @@ export class BoardApi {
           // A garbled event changes nothing; the next one will do.
         }
       });
+      // The server ends each stream after a while (so the session is checked again) and says so
+      // first: the browser's reconnect that follows is not a lost connection.
+      let planned = false;
+      source.addEventListener('reconnect', () => (planned = true));
+      source.onopen = () => {
+        planned = false;
+        subscriber.next({ kind: 'open' });
+      };
       source.onerror = () => {
         if (source.readyState === CLOSED) subscriber.error(new Error('The board stream was closed.'));
+        else if (planned) planned = false;
         else subscriber.next({ kind: 'lost' });
       };
       return () => source.close();

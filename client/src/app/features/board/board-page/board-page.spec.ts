@@ -59,8 +59,14 @@ class FakeEventSource {
   closed = false;
   private readonly listeners: ((e: MessageEvent<string>) => void)[] = [];
   constructor(readonly url: string) {}
+  private readonly reconnectListeners: (() => void)[] = [];
   addEventListener(type: string, listener: (e: MessageEvent<string>) => void) {
     if (type === 'revision') this.listeners.push(listener);
+    if (type === 'reconnect') this.reconnectListeners.push(() => listener({ data: '{}' } as MessageEvent<string>));
+  }
+  /** The server's notice before it ends a stream on purpose. */
+  reconnectNotice() {
+    for (const l of this.reconnectListeners) l();
   }
   close() {
     this.closed = true;
@@ -338,6 +344,37 @@ describe('BoardPage', () => {
       sources[0].open();
       await fixture.whenStable();
       expect(status()).toContain('Live');
+    });
+
+    it('live: the server’s planned end of a stream (it says so first) is not shown as a lost connection', async () => {
+      sources[0].open();
+      sources[0].reconnectNotice();
+      sources[0].drop();
+      await fixture.whenStable();
+      expect(status()).toContain('Live');
+      sources[0].open();
+      sources[0].drop(); // an unplanned drop after that is
+      await fixture.whenStable();
+      expect(status()).toContain('Connection lost. Retrying…');
+    });
+
+    it('live: when the server refuses the stream for good, it checks the board (a 401 there goes to sign-in) and tries a new stream', async () => {
+      vi.useFakeTimers();
+      try {
+        sources[0].readyState = 2;
+        sources[0].onerror?.();
+        TestBed.tick();
+        expect(status()).toContain('Connection lost. Retrying…');
+        http.expectOne((r) => r.method === 'GET' && r.url === '/api/board').flush(boardBody(), { headers: { 'X-Board-Revision': '5' } });
+        expect(sources).toHaveLength(1);
+        vi.advanceTimersByTime(2_000);
+        expect(sources).toHaveLength(2);
+        sources[1].open();
+        TestBed.tick();
+        expect(status()).toContain('Live');
+      } finally {
+        vi.useRealTimers();
+      }
     });
 
     it('closes the stream when the page goes', () => {
