@@ -34,7 +34,8 @@ export interface MoveRequest {
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './board-lane.html',
   styleUrl: './board-lane.scss',
-  host: { class: 'board-lane', '[attr.aria-labelledby]': "'lane-title-' + lane().state", role: 'region' },
+  // tabindex -1: the page can put focus on a lane (e.g. after its card was closed and left the board).
+  host: { class: 'board-lane', '[attr.aria-labelledby]': "'lane-title-' + lane().state", role: 'region', tabindex: '-1' },
 })
 export class BoardLane {
   readonly lane = input.required<LaneView>();

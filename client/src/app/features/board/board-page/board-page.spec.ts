@@ -269,6 +269,17 @@ describe('BoardPage', () => {
       expect(dialogOpen.mock.calls[2][1].data.initialNote).toBeUndefined();
     });
 
+    it('after closing a ticket (it leaves the board) focus goes to the lane it left', async () => {
+      fixture.componentInstance['board'].reload();
+      flushBoard(boardBody([card('RW-0018', 'return')]), '6');
+      await fixture.whenStable();
+      await fixture.componentInstance.requestMove(cardOf('RW-0018'), 'closed');
+      await fixture.whenStable();
+      expect(tagsIn('return')).toEqual([]);
+      expect(document.activeElement).toBe(root.querySelector('rw-board-lane[aria-labelledby="lane-title-return"]'));
+      http.expectOne('/api/tickets/RW-0018/moves').flush({ ...card('RW-0018', 'closed'), version: 4 });
+    });
+
     it('a failed test sheet flag lets Bench test go back to Repair without a note', async () => {
       await fixture.componentInstance.requestMove(cardOf('RW-0005'), 'repair');
       expect(dialogOpen).not.toHaveBeenCalled();

@@ -366,7 +366,7 @@ export class BoardPage {
     const tag = card.tag;
     this.setLocal({ ...card, state: to, stateSince: new Date().toISOString(), version: card.version + 1 });
     this.setPending(tag, true);
-    this.followCard(tag, to);
+    this.followCard(tag, to, card.state);
     this.ticketApi.move(tag, { to, version: card.version, ...(note ? { note } : {}) }).subscribe({
       next: (ticket) => {
         this.setPending(tag, false);
@@ -398,15 +398,25 @@ export class BoardPage {
   }
 
   /** Keeps the card in sight and focus on it: on a phone, show its lane; then focus its menu button. */
-  private followCard(tag: string, state: TicketState): void {
+  private followCard(tag: string, state: TicketState, from?: TicketState): void {
     if (this.compact() && this.lanes().some((l) => l.state === state)) this.selectedLane.set(state);
-    this.focusCard(tag);
+    this.focusCard(tag, from);
   }
 
-  /** Puts keyboard focus on the card's menu button once the board has rendered. */
-  private focusCard(tag: string): void {
+  /**
+   * Puts keyboard focus on the card's menu button once the board has rendered; when the card has
+   * left the board (closed) or the filter hides it, on the lane it left instead.
+   */
+  private focusCard(tag: string, fallbackLane?: TicketState): void {
     afterNextRender(
-      { write: () => this.host.nativeElement.querySelector<HTMLElement>(`[data-tag="${tag}"] .card-menu`)?.focus() },
+      {
+        write: () => {
+          const root = this.host.nativeElement;
+          const button = root.querySelector<HTMLElement>(`[data-tag="${tag}"] .card-menu`);
+          if (button) button.focus();
+          else if (fallbackLane) root.querySelector<HTMLElement>(`rw-board-lane[aria-labelledby="lane-title-${fallbackLane}"]`)?.focus();
+        },
+      },
       { injector: this.injector },
     );
   }
