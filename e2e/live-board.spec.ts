@@ -1,13 +1,21 @@
 // The live Bench board: two technicians on one club night, each with the board open. One moves a
 // card (by keyboard, from its menu); the other sees it move within a few seconds without
 // reloading. A card being dragged is not yanked away by such a refresh.
-import { expect, test, type Browser, type Page } from '@playwright/test';
+import { expect, test, type Browser, type BrowserContext, type Page } from '@playwright/test';
 import { DEMO, SCREENSHOTS, signIn } from './support';
 
 const TECH2 = { email: 'tech2@kestrelfen.example', password: 'bench-demo-tech2' };
 
+/** Contexts opened by a test: closed after it, so no open board keeps listening into the next test. */
+const opened: BrowserContext[] = [];
+test.afterEach(async () => {
+  await Promise.all(opened.splice(0).map((c) => c.close()));
+});
+
 async function openBoard(browser: Browser, who: { email: string; password: string }): Promise<Page> {
-  const page = await (await browser.newContext()).newPage();
+  const context = await browser.newContext();
+  opened.push(context);
+  const page = await context.newPage();
   await signIn(page, who);
   await page.goto('/board');
   await expect(page.locator('.live-status')).toContainText('Live');
