@@ -3,6 +3,7 @@
 // ACCESS fails the first test, so new routes cannot slip past this sweep.
 import { after, before, test } from 'node:test';
 import assert from 'node:assert/strict';
+import type { IncomingMessage } from 'node:http';
 import { anonymous, createUser, registeredRoutes, setupTestApp, signIn, tableSnapshot, type TestApp, type TestClient } from '../test/helpers';
 import type { Role } from './contracts/accounts';
 
@@ -29,6 +30,7 @@ const ACCESS: Record<string, Actor[]> = {
   'GET /api/tickets/:tag': ['owner', 'technician', 'treasurer', 'admin'],
   'POST /api/tickets/:tag/moves': ['technician', 'admin'],
   'GET /api/board': ['technician', 'admin'],
+  'GET /api/board/events': ['technician', 'admin'],
   'GET /api/calc/xmodem': SIGNED_IN,
   'GET /api/calc/rf': SIGNED_IN,
   'GET /api/calc/dc-drop': SIGNED_IN,
@@ -142,7 +144,7 @@ for (const [route, allowed] of Object.entries(ACCESS)) {
       // An empty body: an allowed actor meets validation (or succeeds), a refused one meets the guard.
       const url = urlFor(path);
       const res =
-        method === 'GET' ? await c.get(url) : method === 'PATCH' ? await c.patch(url, {}) : await c.post(url, {});
+        method === 'GET' ? await streamSafeGet(c, url) : method === 'PATCH' ? await c.patch(url, {}) : await c.post(url, {});
       const refused = res.status === 401 || res.status === 403 || (res.status === 404 && path.includes(':'));
       if (allowed.includes(actor)) {
         assert.ok(!refused, `${actor} was refused ${route} with ${res.status}: ${res.text}`);
@@ -156,4 +158,38 @@ for (const [route, allowed] of Object.entries(ACCESS)) {
       }
     }
   });
+}
+
+/**
+ * A GET that also works on an event stream (GET /api/board/events never ends by itself): the body
+ * of a text/event-stream answer is read up to its first chunk and then dropped; any other answer
+ * is read whole, as usual.
+ */
+function streamSafeGet(c: TestClient, url: string) {
+  return c
+    .get(url)
+    .buffer(true)
+    .parse((response, done) => {
+      const res = response as unknown as IncomingMessage;
+      const type = String(res.headers['content-type'] ?? '');
+      let text = '';
+      res.setEncoding('utf8');
+      if (type.startsWith('text/event-stream')) {
+        res.once('data', (chunk: string) => {
+          res.destroy();
+          done(null, { stream: chunk });
+        });
+        return;
+      }
+      res.on('data', (chunk: string) => (text += chunk));
+      res.on('end', () => {
+        let body: unknown = text;
+        try {
+          body = JSON.parse(text);
+        } catch {
+          // not JSON: keep the text
+        }
+        done(null, body);
+      });
+    });
 }

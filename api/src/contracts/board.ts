@@ -18,6 +18,8 @@ export interface Card {
   state: TicketState;
   stateSince: string;
   version: number;
+  /** The technician who took the ticket (user id), for filtering by person; null until taken. */
+  technicianId: number | null;
   technicianName: string | null;
   flags: Flag[];
 }

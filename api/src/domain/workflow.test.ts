@@ -2,7 +2,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
-import { ALLOWED_MOVES, BOARD_LANES, checkMove, isState, STATES, type MoveFacts, type TicketState } from './workflow';
+import { ALLOWED_MOVES, BOARD_LANES, checkMove, hasNote, isState, moveRequirement, NOTE_MIN_LENGTH, STATES, type MoveFacts, type TicketState } from './workflow';
 
 /** Facts under which every guard is satisfied, so only the move itself is being judged. */
 const easy = (state: TicketState): MoveFacts => ({
@@ -111,6 +111,55 @@ describe('guards', () => {
   });
 });
 
+
+describe('which moves need a note (moveRequirement: one place for the board, the ticket page and the server)', () => {
+  const none = (s: TicketState): MoveFacts => ({
+    state: s, reflashConsent: false, hasVerifiedFlash: false, hasPassedTestSheet: false,
+    hasFailedTestSheet: false, readyToClose: false, awaitingApproval: false,
+  });
+  it('diagnosis → return always needs a note, saying why it goes back unrepaired', () => {
+    const need = moveRequirement(easy('diagnosis'), 'return');
+    assert.equal(need.allowed, true);
+    assert.equal(need.allowed && need.noteRequired, true);
+    assert.match((need as { reason: string }).reason, /Say why it goes back unrepaired/);
+    // Even with a quote waiting: going back to the owner is allowed, with the note.
+    assert.equal((moveRequirement({ ...easy('diagnosis'), awaitingApproval: true }, 'return') as { noteRequired?: boolean }).noteRequired, true);
+  });
+  it('bench test → repair needs a note only without a failed test sheet', () => {
+    assert.deepEqual(moveRequirement(easy('bench_test'), 'repair'), { allowed: true, noteRequired: false });
+    const need = moveRequirement({ ...easy('bench_test'), hasFailedTestSheet: false }, 'repair');
+    assert.equal(need.allowed && need.noteRequired, true);
+    assert.match((need as { reason: string }).reason, /Say what failed on the bench/);
+  });
+  it('every other allowed move needs no note; a refused move says why and does not ask for a note', () => {
+    for (const from of STATES) {
+      for (const to of ALLOWED_MOVES[from]) {
+        if (`${from}>${to}` === 'diagnosis>return' || `${from}>${to}` === 'bench_test>repair') continue;
+        assert.deepEqual(moveRequirement(easy(from), to), { allowed: true, noteRequired: false }, `${from} → ${to}`);
+      }
+    }
+    assert.deepEqual(moveRequirement(none('diagnosis'), 'reflash'), {
+      allowed: false,
+      reason: 'The owner has not consented to a reflash (settings and memories may be lost). Record consent first.',
+    });
+    assert.equal(moveRequirement(none('intake'), 'return').allowed, false);
+  });
+  it(`a note counts from ${NOTE_MIN_LENGTH} characters after trimming; checkMove marks a refusal that a note would lift`, () => {
+    assert.equal(NOTE_MIN_LENGTH, 3);
+    assert.ok(!hasNote(undefined));
+    assert.ok(!hasNote(null));
+    assert.ok(!hasNote('  ok  '));
+    assert.ok(hasNote('NFF'));
+    assert.deepEqual(checkMove(easy('diagnosis'), 'return', ' ok '), {
+      allowed: false,
+      noteRequired: true,
+      reason: 'Say why it goes back unrepaired (no fault found, unrepairable, owner declined) in the note.',
+    });
+    // A refusal that no note can lift carries no noteRequired mark.
+    assert.equal('noteRequired' in checkMove(none('diagnosis'), 'reflash', 'a long note'), false);
+  });
+});
+
 describe('properties', () => {
   it('no fact ever allows a move outside the table, and every refusal has a reason', () => {
     const state = fc.constantFrom(...STATES);
@@ -128,6 +177,10 @@ describe('properties', () => {
         const r = checkMove(f, to, note);
         if (r.allowed) assert.ok(ALLOWED_MOVES[f.state].includes(to));
         else assert.ok(r.reason.length > 10);
+        // checkMove is moveRequirement plus the note: allowed exactly when the requirement allows
+        // it and, where it asks for a note, the note is there.
+        const need = moveRequirement(f, to);
+        assert.equal(r.allowed, need.allowed && (!need.noteRequired || hasNote(note)));
       }),
       { numRuns: 2000 },
     );

@@ -48,52 +48,72 @@ export interface MoveFacts {
   awaitingApproval: boolean;
 }
 
-export type MoveCheck = { allowed: true } | { allowed: false; reason: string };
+/** Shortest note a move accepts where the workflow asks for one (after trimming). */
+export const NOTE_MIN_LENGTH = 3;
 
-/** Decides whether a ticket may move from its state to `to`, and if not, why (in words for the user). */
-export function checkMove(facts: MoveFacts, to: TicketState, note?: string): MoveCheck {
+/** Whether `note` is enough for a move that needs one. */
+export function hasNote(note?: string | null): boolean {
+  return typeof note === 'string' && note.trim().length >= NOTE_MIN_LENGTH;
+}
+
+/**
+ * What a move needs before it can be made, decided from the facts alone (before anyone writes a
+ * note): refused with the reason; allowed; or allowed once the mover writes a note, with `reason`
+ * saying what the note must say. The board, the ticket page and the server all ask this one
+ * function, so "this move needs a note" is decided in one place.
+ */
+export type MoveRequirement =
+  | { allowed: false; reason: string }
+  | { allowed: true; noteRequired: false }
+  | { allowed: true; noteRequired: true; reason: string };
+
+/** The result of checking a move with the note actually written; `noteRequired` marks a refusal that a note would lift. */
+export type MoveCheck = { allowed: true } | { allowed: false; reason: string; noteRequired?: true };
+
+const refuse = (reason: string): MoveRequirement => ({ allowed: false, reason });
+const FREE: MoveRequirement = { allowed: true, noteRequired: false };
+const needsNote = (reason: string): MoveRequirement => ({ allowed: true, noteRequired: true, reason });
+
+/** Decides what moving a ticket from its state to `to` needs (see MoveRequirement). */
+export function moveRequirement(facts: MoveFacts, to: TicketState): MoveRequirement {
   const from = facts.state;
-  if (from === to) return { allowed: false, reason: `The ticket is already in ${STATE_LABELS[to]}.` };
+  if (from === to) return refuse(`The ticket is already in ${STATE_LABELS[to]}.`);
   if (!ALLOWED_MOVES[from].includes(to)) {
     const options = ALLOWED_MOVES[from].map((s) => STATE_LABELS[s]).join(', ');
-    return {
-      allowed: false,
-      reason: `A ticket cannot go from ${STATE_LABELS[from]} to ${STATE_LABELS[to]}.` +
+    return refuse(
+      `A ticket cannot go from ${STATE_LABELS[from]} to ${STATE_LABELS[to]}.` +
         (options ? ` From ${STATE_LABELS[from]} it can go to: ${options}.` : ' Closed tickets stay closed.'),
-    };
+    );
   }
-  if (facts.awaitingApproval && to !== 'return') {
-    return { allowed: false, reason: 'The owner has not approved the quote yet.' };
-  }
+  if (facts.awaitingApproval && to !== 'return') return refuse('The owner has not approved the quote yet.');
   switch (`${from}>${to}`) {
     case 'diagnosis>reflash':
       if (!facts.reflashConsent) {
-        return { allowed: false, reason: 'The owner has not consented to a reflash (settings and memories may be lost). Record consent first.' };
+        return refuse('The owner has not consented to a reflash (settings and memories may be lost). Record consent first.');
       }
       break;
     case 'diagnosis>return':
-      if (!note || note.trim().length < 3) {
-        return { allowed: false, reason: 'Say why it goes back unrepaired (no fault found, unrepairable, owner declined) in the note.' };
-      }
-      break;
+      return needsNote('Say why it goes back unrepaired (no fault found, unrepairable, owner declined) in the note.');
     case 'reflash>bench_test':
-      if (!facts.hasVerifiedFlash) {
-        return { allowed: false, reason: 'No flash attempt is recorded as verified running yet.' };
-      }
+      if (!facts.hasVerifiedFlash) return refuse('No flash attempt is recorded as verified running yet.');
       break;
     case 'bench_test>return':
-      if (!facts.hasPassedTestSheet) return { allowed: false, reason: 'The test sheet has not passed yet.' };
+      if (!facts.hasPassedTestSheet) return refuse('The test sheet has not passed yet.');
       break;
     case 'bench_test>repair':
-      if (!facts.hasFailedTestSheet && (!note || note.trim().length < 3)) {
-        return { allowed: false, reason: 'Say what failed on the bench in the note, or record a failed test sheet.' };
-      }
+      if (!facts.hasFailedTestSheet) return needsNote('Say what failed on the bench in the note, or record a failed test sheet.');
       break;
     case 'return>closed':
-      if (!facts.readyToClose) {
-        return { allowed: false, reason: 'Fees are not settled and the returned-items checklist is not done yet.' };
-      }
+      if (!facts.readyToClose) return refuse('Fees are not settled and the returned-items checklist is not done yet.');
       break;
   }
+  return FREE;
+}
+
+/** Decides whether a ticket may move from its state to `to` with `note`, and if not, why (in words for the user). */
+export function checkMove(facts: MoveFacts, to: TicketState, note?: string): MoveCheck {
+  const need = moveRequirement(facts, to);
+  if (!need.allowed) return { allowed: false, reason: need.reason };
+  if (need.noteRequired && !hasNote(note)) return { allowed: false, reason: need.reason, noteRequired: true };
   return { allowed: true };
 }

@@ -6,6 +6,7 @@ import { parseInput } from '../../errors';
 import { idSchema } from '../../schemas';
 import { requireRole } from '../auth/guards';
 import { createBoardReader } from './board.service';
+import { BOARD_STREAM_DEFAULTS, createRevisionWatch, serveBoardStream, type BoardStreamOptions } from './board-events';
 
 const boardQuerySchema = z.object({
   technician: z
@@ -20,9 +21,23 @@ const boardQuerySchema = z.object({
     .transform((v) => (v ? v : undefined)),
 });
 
-export function createBoardRouter(deps: Pick<AppDeps, 'sequelize'>): Router {
+export interface BoardRouterOptions {
+  /** How often this process reads the board revision while event streams are open. */
+  revisionPollMs?: number;
+  stream?: Partial<BoardStreamOptions>;
+}
+
+export function createBoardRouter(deps: Pick<AppDeps, 'sequelize'> & Partial<Pick<AppDeps, 'logger'>>, options: BoardRouterOptions = {}): Router {
   const router = Router();
   const readBoard = createBoardReader(deps.sequelize);
+  // One watch per process (per app), shared by every open stream: one revision read per interval.
+  const watch = createRevisionWatch(deps.sequelize, { intervalMs: options.revisionPollMs ?? 1000, logger: deps.logger });
+  const streamOptions = { ...BOARD_STREAM_DEFAULTS, ...options.stream };
+
+  // Server-sent events: `event: revision` with `{ revision }` at once and after every board change.
+  router.get('/events', requireRole('technician', 'admin'), async (req, res) => {
+    await serveBoardStream(deps.sequelize, watch, req, res, streamOptions);
+  });
 
   router.get('/', requireRole('technician', 'admin'), async (req, res) => {
     const filters = parseInput(boardQuerySchema, req.query);
@@ -30,6 +45,8 @@ export function createBoardRouter(deps: Pick<AppDeps, 'sequelize'>): Router {
     // Our own ETag (cheap) instead of Express hashing ~100 KiB per request; Express still answers
     // 304 to a matching If-None-Match.
     res.setHeader('ETag', board.etag);
+    // The revision this board is at (or newer): the live board compares it with the event stream's.
+    if (board.revision !== null) res.setHeader('X-Board-Revision', board.revision);
     res.type('application/json').send(board.body);
   });
 

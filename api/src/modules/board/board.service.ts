@@ -29,6 +29,7 @@ type CardRecord = {
   state: TicketState;
   state_since: Date;
   version: number;
+  technician_id: number | null;
   technician_name: string | null;
   awaiting_approval: number | boolean;
   parts_on_order: number | boolean;
@@ -50,7 +51,7 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
   }
   const rows = await sequelize.query<CardRecord>(
     'SELECT t.id, t.equipment_kind, t.make_model, t.owner_name, t.owner_call_sign, t.state, t.state_since, ' +
-      't.version, u.display_name AS technician_name, t.awaiting_approval, t.parts_on_order ' +
+      't.version, t.technician_id, u.display_name AS technician_name, t.awaiting_approval, t.parts_on_order ' +
       'FROM tickets t LEFT JOIN users u ON u.id = t.technician_id ' +
       `WHERE ${where.join(' AND ')} ORDER BY t.state_since ASC, t.id ASC`,
     { replacements, type: QueryTypes.SELECT, raw: true },
@@ -74,6 +75,7 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
       state: r.state,
       stateSince,
       version: r.version,
+      technicianId: r.technician_id,
       technicianName: r.technician_name,
       flags,
     };
@@ -97,6 +99,8 @@ interface CacheEntry {
 export interface BoardBody {
   body: Buffer;
   etag: string;
+  /** The board revision read before the board was built (null while the settings row is missing). */
+  revision: string | null;
 }
 
 /**
@@ -120,7 +124,7 @@ export function createBoardReader(sequelize: Sequelize, options: { ttlMs?: numbe
 
   return async function readBoard(filters: BoardFilters): Promise<BoardBody> {
     const settings = await readBoardSettings(sequelize);
-    if (settings.revision === null) return build(filters, settings.waitLimitHours);
+    if (settings.revision === null) return { ...(await build(filters, settings.waitLimitHours)), revision: null };
     if (settings.revision !== cachedRevision) {
       cache.clear();
       cachedRevision = settings.revision;
@@ -128,7 +132,7 @@ export function createBoardReader(sequelize: Sequelize, options: { ttlMs?: numbe
     const key = `${settings.waitLimitHours}|${filters.technician ?? ''}|${filters.q ?? ''}`;
     const hit = cache.get(key);
     const now = Date.now();
-    if (hit && now - hit.at < ttlMs) return hit;
+    if (hit && now - hit.at < ttlMs) return { ...hit, revision: settings.revision };
     const entry = await build(filters, settings.waitLimitHours);
     // A write may have committed while we read; the next request sees the new revision and
     // rebuilds. Only cache under the revision we read before the board itself.
@@ -136,6 +140,6 @@ export function createBoardReader(sequelize: Sequelize, options: { ttlMs?: numbe
       if (cache.size >= maxEntries) cache.delete(cache.keys().next().value as string);
       cache.set(key, entry);
     }
-    return entry;
+    return { ...entry, revision: settings.revision };
   };
 }

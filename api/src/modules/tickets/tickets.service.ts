@@ -4,7 +4,7 @@
 import { Op, OptimisticLockError, type FindOptions, type InferAttributes, type Order, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type { AppDeps } from '../../deps';
 import { ConflictError, ForbiddenError, NotFoundError, RuleError } from '../../errors';
-import { checkMove, isState, STATE_LABELS, STATES, type MoveFacts, type TicketState } from '../../domain/workflow';
+import { checkMove, isState, moveRequirement, STATE_LABELS, STATES, type MoveFacts, type TicketState } from '../../domain/workflow';
 import { hasRole } from '../auth/guards';
 import type { SessionUser } from '../auth/session-user';
 import { enqueueMail } from '../outbox/outbox.service';
@@ -185,14 +185,11 @@ export function moveOptions(user: SessionUser, ticket: Pick<Ticket, 'state' | 'r
   const facts = moveFactsOf(ticket, recorded);
   const canMove = movesTickets(user);
   return STATES.map((to): MoveOption => {
-    const check = checkMove(facts, to);
-    if (!check.allowed) {
-      // Some guards only want a note; the board then asks for one instead of refusing the drop.
-      const withNote = checkMove(facts, to, 'a note');
-      if (!withNote.allowed || !canMove) return { to, allowed: false, reason: canMove ? check.reason : 'Only technicians move tickets on the Bench board.' };
-      return { to, allowed: true, noteRequired: true, reason: check.reason };
-    }
+    const need = moveRequirement(facts, to);
+    if (!need.allowed) return { to, allowed: false, reason: need.reason };
     if (!canMove) return { to, allowed: false, reason: 'Only technicians move tickets on the Bench board.' };
+    // Allowed once the mover writes a note: the client asks for one, saying what it must say.
+    if (need.noteRequired) return { to, allowed: true, noteRequired: true, reason: need.reason };
     return { to, allowed: true };
   });
 }

@@ -14,6 +14,14 @@ export interface ApiError {
  */
 export const HANDLES_OWN_ERRORS = new HttpContextToken<boolean>(() => false);
 
+/**
+ * Set beside HANDLES_OWN_ERRORS where a 401 can only mean that the session ended (a move on the
+ * board or the ticket page, in the middle of a drag): the interceptor still ends the session and
+ * sends the person to sign in, while the caller handles every other error. Not for the sign-in
+ * and password forms, whose 401 means a wrong password.
+ */
+export const SESSION_ENDS_ON_401 = new HttpContextToken<boolean>(() => false);
+
 /** Reads any HTTP failure into the API's error shape, with wording a person can act on. */
 export function readApiError(err: unknown): ApiError {
   if (err instanceof HttpErrorResponse) {

@@ -4,7 +4,7 @@ import { TestBed } from '@angular/core/testing';
 import { Router, provideRouter } from '@angular/router';
 import { SessionStore } from '../auth/session-store';
 import { Notifier } from '../notifier';
-import { HANDLES_OWN_ERRORS } from './api-error';
+import { HANDLES_OWN_ERRORS, SESSION_ENDS_ON_401 } from './api-error';
 import { errorInterceptor } from './error-interceptor';
 
 describe('errorInterceptor', () => {
@@ -66,6 +66,25 @@ describe('errorInterceptor', () => {
     backend.expectOne('/api/x').flush({ error: { code: 'c', message: 'm' } }, { status: 409, statusText: 'Conflict' });
     expect(notifier.error).not.toHaveBeenCalled();
     expect(navigate).not.toHaveBeenCalled();
+  });
+
+  it('a 401 on a request marked SESSION_ENDS_ON_401 (a move mid-drag) still sends the person to sign in; its other errors stay with the caller', () => {
+    const context = () => new HttpContext().set(HANDLES_OWN_ERRORS, true).set(SESSION_ENDS_ON_401, true);
+    http.post('/api/tickets/RW-0001/moves', {}, { context: context() }).subscribe({ error: () => undefined });
+    backend
+      .expectOne('/api/tickets/RW-0001/moves')
+      .flush({ error: { code: 'stale_version', message: 'Someone else moved it.' } }, { status: 409, statusText: 'Conflict' });
+    expect(notifier.error).not.toHaveBeenCalled();
+    expect(navigate).not.toHaveBeenCalled();
+
+    const failed = vi.fn();
+    http.post('/api/tickets/RW-0001/moves', {}, { context: context() }).subscribe({ error: failed });
+    backend
+      .expectOne('/api/tickets/RW-0001/moves')
+      .flush({ error: { code: 'not_signed_in', message: 'Sign in to continue.' } }, { status: 401, statusText: 'Unauthorized' });
+    expect(TestBed.inject(SessionStore).signedIn()).toBe(false);
+    expect(navigate).toHaveBeenCalledWith(['/sign-in'], expect.anything());
+    expect(failed).toHaveBeenCalledTimes(1);
   });
 
   it('words a network failure without a body', () => {

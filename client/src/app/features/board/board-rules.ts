@@ -1,13 +1,14 @@
-import { ALLOWED_MOVES, MoveCheck, STATE_LABELS, TicketState, checkMove } from '@domain/workflow';
+import { ALLOWED_MOVES, MoveRequirement, TicketState, moveRequirement } from '@domain/workflow';
 import { Card } from './board.models';
 
 /**
- * What the board can decide about a move from a card alone. It knows the lane rules and the
- * facts a card carries (flags); guards that need more facts (consent, flash attempts, test sheets,
- * fees) are left to the server, which answers 422 with its reason.
+ * What the board can decide about a move from a card alone, asked of the workflow itself
+ * (`moveRequirement`, the same function the server uses). A card carries some facts (its flags);
+ * guards that need more (consent, flash attempts, test sheets, fees) are assumed met here and
+ * left to the server, which answers 422 with its reason.
  */
-export function checkCardMove(card: Card, to: TicketState, note?: string): MoveCheck {
-  return checkMove(
+export function cardMoveRequirement(card: Card, to: TicketState): MoveRequirement {
+  return moveRequirement(
     {
       state: card.state,
       awaitingApproval: card.flags.includes('awaiting_approval'),
@@ -19,23 +20,9 @@ export function checkCardMove(card: Card, to: TicketState, note?: string): MoveC
       readyToClose: true,
     },
     to,
-    note,
   );
-}
-
-/** Moves that need a note for the timeline before the server accepts them. */
-export function moveNeedsNote(card: Card, to: TicketState): boolean {
-  if (card.state === 'diagnosis' && to === 'return') return true;
-  if (card.state === 'bench_test' && to === 'repair') return !card.flags.includes('test_failed');
-  return false;
 }
 
 export function movesFrom(state: TicketState): readonly TicketState[] {
   return ALLOWED_MOVES[state] ?? [];
-}
-
-export function notePrompt(card: Card, to: TicketState): string {
-  return card.state === 'diagnosis'
-    ? `Say why ${card.tag} goes back to the owner unrepaired: no fault found, unrepairable, or owner declined.`
-    : `Say what failed on the bench before ${card.tag} goes back to ${STATE_LABELS[to]}.`;
 }

@@ -2,7 +2,7 @@ import { HttpClient, HttpContext } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { Observable } from 'rxjs';
 import { Page } from '@contracts/lists';
-import { HANDLES_OWN_ERRORS, queryParams } from '../../core/http/api-error';
+import { HANDLES_OWN_ERRORS, SESSION_ENDS_ON_401, queryParams } from '../../core/http/api-error';
 import { IntakeBody, MoveBody, TicketDetail, TicketQuery, TicketRow } from './ticket.models';
 
 /** The ticket routes of the API. */
@@ -25,10 +25,13 @@ export class TicketApi {
     });
   }
 
-  /** Callers handle 409 (stale version) and 422 (move refused) themselves: they put things back. */
+  /**
+   * Callers handle 409 (stale version) and 422 (move refused) themselves: they put things back.
+   * A 401 (the session ended, perhaps in the middle of a drag) still goes to sign-in.
+   */
   move(tag: string, body: MoveBody): Observable<TicketDetail> {
     return this.http.post<TicketDetail>(`/api/tickets/${encodeURIComponent(tag)}/moves`, body, {
-      context: new HttpContext().set(HANDLES_OWN_ERRORS, true),
+      context: new HttpContext().set(HANDLES_OWN_ERRORS, true).set(SESSION_ENDS_ON_401, true),
     });
   }
 }

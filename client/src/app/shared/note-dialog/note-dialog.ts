@@ -12,6 +12,10 @@ export interface NoteDialogData {
   confirmLabel: string;
   /** Shortest note accepted (the workflow asks for at least 3 characters where a note is needed). */
   minLength: number;
+  /** A note written before and not yet sent (e.g. the move met a 409): shown again for the retry. */
+  initialNote?: string;
+  /** Says why the note is shown again (e.g. "Your note is kept: ..."). */
+  notice?: string;
 }
 
 /** Asks for the note some moves need ("why it goes back unrepaired"). Closes with the note or nothing. */
@@ -23,6 +27,9 @@ export interface NoteDialogData {
     <h2 mat-dialog-title>{{ data.title }}</h2>
     <form [formGroup]="form" (ngSubmit)="save()">
       <mat-dialog-content>
+        @if (data.notice) {
+          <p class="notice" role="status">{{ data.notice }}</p>
+        }
         <p>{{ data.prompt }}</p>
         <mat-form-field class="full-width">
           <mat-label>Note for the timeline</mat-label>
@@ -36,13 +43,13 @@ export interface NoteDialogData {
       </mat-dialog-actions>
     </form>
   `,
-  styles: `.full-width { width: 100%; min-width: min(420px, 80vw); }`,
+  styles: `.full-width { width: 100%; min-width: min(420px, 80vw); } .notice { font-weight: 600; }`,
 })
 export class NoteDialog {
   protected readonly data = inject<NoteDialogData>(MAT_DIALOG_DATA);
   private readonly ref = inject<MatDialogRef<NoteDialog, string>>(MatDialogRef);
   protected readonly form = inject(NonNullableFormBuilder).group({
-    note: ['', [Validators.required, Validators.minLength(this.data.minLength), Validators.maxLength(2000)]],
+    note: [this.data.initialNote ?? '', [Validators.required, Validators.minLength(this.data.minLength), Validators.maxLength(2000)]],
   });
 
   protected message(): string {

@@ -9,7 +9,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
-import { ALLOWED_MOVES } from '@domain/workflow';
+import { ALLOWED_MOVES, hasNote } from '@domain/workflow';
 import { SessionStore } from '../../../core/auth/session-store';
 import { readApiError } from '../../../core/http/api-error';
 import { Notifier } from '../../../core/notifier';
@@ -77,21 +77,17 @@ export class TicketPage {
   });
 
   /**
-   * Whether a move button is live. A move that only wants a note (the server marks it
-   * `noteRequired`) becomes possible once a note of 3+ characters is written; the server checks
-   * again and answers with its reason if something else is missing.
+   * Whether a move button is live. The server asks the workflow (`moveRequirement`) and marks a
+   * move that only wants a note `noteRequired`; it becomes possible once the note is long enough
+   * for the same workflow (`hasNote`). The server checks again when the move is sent.
    */
-  protected canMove(ticket: TicketDetail, option: MoveOption): boolean {
-    const noteMove =
-      option.noteRequired ||
-      (!option.allowed &&
-        ((ticket.state === 'diagnosis' && option.to === 'return') || (ticket.state === 'bench_test' && option.to === 'repair')));
-    if (noteMove) return this.note().trim().length >= 3;
+  protected canMove(option: MoveOption): boolean {
+    if (option.noteRequired) return hasNote(this.note());
     return option.allowed;
   }
 
   protected move(ticket: TicketDetail, option: MoveOption): void {
-    if (!this.canMove(ticket, option) || this.moving()) return;
+    if (!this.canMove(option) || this.moving()) return;
     this.moveError.set('');
     this.moving.set(true);
     const note = this.noteForm.controls.note.value.trim();
