@@ -4,11 +4,13 @@ import { Umzug, SequelizeStorage } from 'umzug';
 import type { QueryInterface, Sequelize } from 'sequelize';
 import * as m001 from './migrations/001-accounts';
 import * as m002 from './migrations/002-tickets';
+import * as m020 from './migrations/020-bench-slots';
 
 type Step = { up(qi: QueryInterface): Promise<void>; down(qi: QueryInterface): Promise<void> };
 const MIGRATIONS: [string, Step][] = [
   ['001-accounts', m001],
   ['002-tickets', m002],
+  ['020-bench-slots', m020],
 ];
 
 export function createMigrator(sequelize: Sequelize, log = false) {

@@ -10,6 +10,9 @@ export interface MailToQueue {
   subject: string;
   text: string;
   ticketId?: number | null;
+  bookingId?: number | null;
+  /** Hold the mail until this instant (the worker skips it before then). */
+  sendAfter?: Date | null;
 }
 
 /** Writes one pending outbox row in `transaction` and returns its id. */
@@ -21,7 +24,9 @@ export async function enqueueMail(transaction: Transaction, mail: MailToQueue): 
       subject: mail.subject.slice(0, 200),
       textBody: mail.text,
       ticketId: mail.ticketId ?? null,
-      nextAttemptAt: new Date(),
+      bookingId: mail.bookingId ?? null,
+      sendAfter: mail.sendAfter ?? null,
+      nextAttemptAt: mail.sendAfter ?? new Date(),
       lockedUntil: null,
       lastError: null,
       sentAt: null,
