@@ -18,6 +18,8 @@ import { createUsersRouter } from './modules/users/users.router';
 import { createTicketsRouter } from './modules/tickets/tickets.router';
 import { createBoardRouter } from './modules/board/board.router';
 import { calcRouter } from './modules/calc/calc.router';
+import { createBenchesRouter } from './modules/benches/benches.router';
+import { createBookingsRouter } from './modules/bookings/bookings.router';
 
 export interface AppDeps {
   config: Config;
@@ -85,6 +87,8 @@ export function createApp(deps: AppDeps): express.Express {
   app.use('/api/tickets', createTicketsRouter(deps));
   app.use('/api/board', createBoardRouter(deps));
   app.use('/api/calc', requireSignedIn, calcRouter);
+  app.use('/api/benches', createBenchesRouter(deps));
+  app.use('/api/bookings', createBookingsRouter(deps));
   app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route.', 'route_not_found')));
 
   // The built client, with the single-page fallback for its routes.
