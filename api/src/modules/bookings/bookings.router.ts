@@ -16,7 +16,7 @@ import {
   optionalDateQuery,
   patchBookingBody,
 } from './bookings.schemas';
-import { cancelBooking, changeBooking, createBooking, daySchedule, daySlots, getBooking, listMyBookings, markNoShow } from './bookings.service';
+import { assertOwnBooking, cancelBooking, changeBooking, createBooking, daySchedule, daySlots, getBooking, listMyBookings, markNoShow } from './bookings.service';
 import { feedLink, memberFeed, resetFeed, sessionsFeed } from './calendar-feeds';
 
 export interface BookingsRouterDeps {
@@ -70,6 +70,7 @@ export function createBookingsRouter(deps: BookingsRouterDeps): Router {
   });
   router.patch('/:bookingId', requireSignedIn, async (req, res) => {
     const bookingId = id(req.params);
+    await assertOwnBooking(deps, currentUser(req), bookingId);
     res.json(await changeBooking(deps, currentUser(req), bookingId, parseInput(patchBookingBody, req.body)));
   });
   router.post('/:bookingId/cancel', requireSignedIn, async (req, res) => {

@@ -314,6 +314,12 @@ export async function getBooking(deps: BookingsDeps, user: SessionUser, id: numb
   return toRow(row, await readBookingSettings(deps.sequelize), new Date());
 }
 
+/** 404 unless the booking is the person's own (checked before the body, so a stranger learns nothing from a 400). */
+export async function assertOwnBooking(deps: BookingsDeps, user: SessionUser, id: number): Promise<void> {
+  const row = await loadRow(deps.sequelize, id);
+  if (!row || row.user_id !== user.id) throw notFound();
+}
+
 /** The member changes what the booking is for, its ticket or its note (times: cancel and book again). */
 export async function changeBooking(deps: BookingsDeps, user: SessionUser, id: number, input: PatchBookingBody): Promise<BookingRow> {
   const { sequelize } = deps;
