@@ -15,6 +15,7 @@ import { createSequelize } from '../api/src/db';
 import { migrateUp } from './migrator';
 import * as s001 from './seeders/001-demo-accounts';
 import * as s002 from './seeders/002-demo-tickets';
+import * as s020 from './seeders/020-demo-benches';
 import { seedBoardLoad } from './seeders/board-load';
 
 export { seedBoardLoad };
@@ -23,6 +24,7 @@ type Seed = { up(p: { context: Sequelize }): Promise<void>; down(p: { context: S
 const SEEDERS: [string, Seed][] = [
   ['001-demo-accounts', s001],
   ['002-demo-tickets', s002],
+  ['020-demo-benches', s020],
 ];
 
 export function createSeeder(sequelize: Sequelize, log = false) {
