@@ -58,6 +58,16 @@ export const routes: Routes = [
     loadChildren: () => import('./features/accounts/accounts.routes').then((m) => m.ACCOUNT_ROUTES),
   },
   {
+    path: 'bookings',
+    canActivate: [signedInGuard],
+    loadChildren: () => import('./features/bookings/bookings.routes').then((m) => m.BOOKING_ROUTES),
+  },
+  {
+    path: 'admin/benches',
+    canActivate: [roleGuard('admin')],
+    loadChildren: () => import('./features/benches/benches.routes').then((m) => m.BENCH_ROUTES),
+  },
+  {
     path: 'calculators',
     title: 'Bench calculators · Rigwright',
     canActivate: [signedInGuard],

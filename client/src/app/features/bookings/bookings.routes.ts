@@ -1,0 +1,22 @@
+import { Routes } from '@angular/router';
+import { roleGuard } from '../../core/auth/guards';
+
+export const BOOKING_ROUTES: Routes = [
+  {
+    path: '',
+    title: 'My bench slots · Rigwright',
+    loadComponent: () => import('./my-bookings-page/my-bookings-page').then((m) => m.MyBookingsPage),
+  },
+  {
+    path: 'book',
+    title: 'Book a bench slot · Rigwright',
+    canActivate: [roleGuard('member', 'technician', 'admin')],
+    loadComponent: () => import('./book-slot-page/book-slot-page').then((m) => m.BookSlotPage),
+  },
+  {
+    path: 'tonight',
+    title: 'Tonight at the bench · Rigwright',
+    canActivate: [roleGuard('technician', 'admin')],
+    loadComponent: () => import('./tonight-page/tonight-page').then((m) => m.TonightPage),
+  },
+];
