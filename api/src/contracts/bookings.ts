@@ -81,6 +81,8 @@ export interface DaySlots {
   timeZone: string;
   slotMinutes: number;
   sessions: { start: string; end: string; note: string | null }[];
+  /** The next date after `date` with an opening session (within the booking horizon), or null. */
+  nextSessionDate: string | null;
   benches: {
     bench: Bench;
     slots: { start: string; end: string; status: SlotStatus; bookingId?: number }[];

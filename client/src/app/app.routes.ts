@@ -63,6 +63,12 @@ export const routes: Routes = [
     loadChildren: () => import('./features/bookings/bookings.routes').then((m) => m.BOOKING_ROUTES),
   },
   {
+    path: 'tonight',
+    title: 'Tonight at the bench · Rigwright',
+    canActivate: [roleGuard('technician', 'admin')],
+    loadComponent: () => import('./features/bookings/tonight-page/tonight-page').then((m) => m.TonightPage),
+  },
+  {
     path: 'admin/benches',
     canActivate: [roleGuard('admin')],
     loadChildren: () => import('./features/benches/benches.routes').then((m) => m.BENCH_ROUTES),

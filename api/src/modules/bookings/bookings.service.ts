@@ -9,7 +9,9 @@ import { DateTime } from 'luxon';
 import type { Config } from '../../config';
 import { ConflictError, NotFoundError, RuleError, ValidationError } from '../../errors';
 import {
+  addDays,
   dayBounds,
+  sessionsBetween,
   fitSlots,
   localDateOf,
   reminderDueAt,
@@ -125,7 +127,9 @@ export async function daySlots(deps: BookingsDeps, user: SessionUser, date: stri
   const { sequelize } = deps;
   const settings = await readBookingSettings(sequelize);
   const zone = settings.timeZone;
-  const sessions = sessionsOn(await listRules(), date, zone);
+  const rules = await listRules();
+  const sessions = sessionsOn(rules, date, zone);
+  const nextSession = sessionsBetween(rules, addDays(date, 1), addDays(localDateOf(new Date(), zone), settings.horizonDays), zone)[0];
   const benches = await listBenches();
   const { start, end } = dayBounds(date, zone);
   const units = await sequelize.query<{ bench_id: number; unit_start: Date; user_id: number; booking_id: number }>(
@@ -141,6 +145,7 @@ export async function daySlots(deps: BookingsDeps, user: SessionUser, date: stri
     timeZone: zone,
     slotMinutes: settings.slotMinutes,
     sessions: sessionsDto(sessions),
+    nextSessionDate: nextSession?.date ?? null,
     benches: benches.map((bench) => ({
       bench,
       slots: sessions.flatMap((s) =>

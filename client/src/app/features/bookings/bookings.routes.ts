@@ -13,10 +13,4 @@ export const BOOKING_ROUTES: Routes = [
     canActivate: [roleGuard('member', 'technician', 'admin')],
     loadComponent: () => import('./book-slot-page/book-slot-page').then((m) => m.BookSlotPage),
   },
-  {
-    path: 'tonight',
-    title: 'Tonight at the bench · Rigwright',
-    canActivate: [roleGuard('technician', 'admin')],
-    loadComponent: () => import('./tonight-page/tonight-page').then((m) => m.TonightPage),
-  },
 ];

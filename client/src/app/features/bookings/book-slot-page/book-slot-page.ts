@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { rxResource, toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -72,13 +72,15 @@ export class BookSlotPage {
 
   protected readonly day = this.fb.control<Date | null>(null, Validators.required);
   private readonly dayValue = toSignal(this.day.valueChanges, { initialValue: null });
-  protected readonly date = computed(() => {
+  protected readonly pickedDate = computed(() => {
     const d = this.dayValue();
     return d ? isoDate(d) : null;
   });
+  /** `?date=YYYY-MM-DD` opens the page on that day. */
+  readonly date = input<string>();
 
   protected readonly slots = rxResource({
-    params: () => this.date(),
+    params: () => this.pickedDate(),
     stream: ({ params }) => (params ? this.api.slots(params) : of(null as DaySlots | null)),
   });
   protected readonly dayData = computed(() => (this.slots.hasValue() ? this.slots.value() : null));
@@ -120,7 +122,26 @@ export class BookSlotPage {
   protected readonly formError = this.submitter.formError;
 
   constructor() {
-    this.day.setValue(clubToday('Europe/London'));
+    effect(() => {
+      const wanted = this.date();
+      const match = wanted ? /^(\d{4})-(\d{2})-(\d{2})$/.exec(wanted) : null;
+      untracked(() => this.day.setValue(match ? new Date(+match[1]!, +match[2]! - 1, +match[3]!) : clubToday(this.zone())));
+    });
+    // Opened without a date on a day the bench is closed: go to the next opening day once.
+    let jumped = false;
+    effect(() => {
+      const d = this.dayData();
+      if (jumped || !d || this.date()) return;
+      jumped = true;
+      const stillOpen = d.benches.some((b) => b.slots.some((s) => s.status !== 'past'));
+      if ((!d.sessions.length || !stillOpen) && d.nextSessionDate) untracked(() => this.goTo(d.nextSessionDate!));
+    });
+  }
+
+  protected goTo(date: string): void {
+    const [y, m, dd] = date.split('-').map(Number);
+    this.day.setValue(new Date(y!, m! - 1, dd!));
+    this.dayChanged();
   }
 
   protected dateWords(iso: string): string {
