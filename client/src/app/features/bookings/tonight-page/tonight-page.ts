@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { rxResource, toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -43,6 +43,15 @@ export class TonightPage {
   protected readonly data = computed(() => (this.schedule.hasValue() ? this.schedule.value() : null));
   protected readonly busyId = signal<number | null>(null);
   protected readonly now = signal(Date.now());
+  /** `?date=YYYY-MM-DD` opens another day's list (default: today in the club's zone). */
+  readonly date = input<string>();
+
+  constructor() {
+    effect(() => {
+      const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(this.date() ?? '');
+      if (match) untracked(() => this.day.setValue(new Date(+match[1]!, +match[2]! - 1, +match[3]!)));
+    });
+  }
 
   protected time(iso: string): string {
     return clubTime(iso, this.zone());
