@@ -13,9 +13,10 @@ import { anonymous, createUser, setupTestApp, signIn, truncateAll, type TestApp,
 import { benchWithSession } from '../../../test/bench-fixtures';
 import { startOutboxWorker } from '../outbox/outbox.worker';
 
-// This worktree's spare ports (the browser suite's mail ports; the suites do not run at once).
-const SMTP_PORT = Number(process.env.RW_BOOKING_TEST_SMTP_PORT ?? 1232);
-const WEB_PORT = Number(process.env.RW_BOOKING_TEST_MAIL_WEB_PORT ?? 1287);
+// The browser suite's mail ports when set (the test command runs the suites one after another),
+// else spare ports beside the outbox worker test's.
+const SMTP_PORT = Number(process.env.RW_E2E_SMTP_PORT ?? 1127);
+const WEB_PORT = Number(process.env.RW_E2E_MAIL_WEB_PORT ?? 1182);
 const PW = 'bittern booming at dusk';
 
 let t: TestApp;

@@ -54,8 +54,15 @@ describe('BookSlotPage', () => {
   const slotButtons = () => Array.from(root.querySelectorAll<HTMLButtonElement>('button.slot'));
 
   it('shows each slot in the club\'s time with its status in words, and taken slots cannot be chosen', () => {
-    const texts = slotButtons().map((b) => b.textContent!.replace(/\s+/g, ' ').trim());
-    expect(texts).toEqual(['19:00–19:30 event_available Free', '19:30–20:00 event_available Free', '20:00–20:30 block Taken']);
+    const texts = slotButtons().map((b) => [
+      b.querySelector('.slot-time')!.textContent!.trim(),
+      b.querySelector('.slot-status')!.textContent!.replace('event_available', '').replace('block', '').trim(),
+    ]);
+    expect(texts).toEqual([
+      ['19:00–19:30', 'Free'],
+      ['19:30–20:00', 'Free'],
+      ['20:00–20:30', 'Taken'],
+    ]);
     expect(slotButtons()[2]!.disabled).toBe(true);
     expect(root.textContent).toContain('Supply 13.8 V');
   });
@@ -64,7 +71,7 @@ describe('BookSlotPage', () => {
     slotButtons()[0]!.click();
     slotButtons()[1]!.click();
     fixture.detectChanges();
-    expect(root.querySelector('#book-title')!.textContent).toContain('Heron bench, Tue 8 Dec 2026, 19:00–20:00 (2 slots)');
+    expect(root.querySelector('#book-title')!.textContent).toContain('Heron bench, Tue, 8 Dec 2026, 19:00–20:00 (2 slots)');
 
     const page = fixture.componentInstance as unknown as { form: { patchValue(v: object): void } };
     page.form.patchValue({ purpose: 'drop_off', ticketTag: 'RW-0042' });
