@@ -79,6 +79,7 @@ describe('BookSlotPage', () => {
     const post = http.expectOne((r) => r.method === 'POST' && r.url === '/api/bookings');
     expect(post.request.body).toEqual({ benchId: 4, start: '2026-12-08T19:00:00.000Z', slotCount: 2, purpose: 'drop_off', ticketTag: 'RW-0042', note: null });
     post.flush({ error: { code: 'slot_taken', message: 'Someone has just taken that slot. Pick another free slot.' } }, { status: 409, statusText: 'Conflict' });
+    TestBed.tick(); // the resource's reload starts its request
     http.expectOne((r) => r.url === '/api/bookings/slots').flush(DAY);
     await fixture.whenStable();
     expect(root.querySelector('[role="alert"]')!.textContent).toContain('Someone has just taken that slot');
