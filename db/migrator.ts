@@ -6,6 +6,7 @@ import * as m001 from './migrations/001-accounts';
 import * as m002 from './migrations/002-tickets';
 import * as m004 from './migrations/004-club-name';
 import * as m010 from './migrations/010-firmware';
+import * as m020 from './migrations/020-bench-slots';
 
 type Step = { up(qi: QueryInterface): Promise<void>; down(qi: QueryInterface): Promise<void> };
 const MIGRATIONS: [string, Step][] = [
@@ -13,6 +14,7 @@ const MIGRATIONS: [string, Step][] = [
   ['002-tickets', m002],
   ['004-club-name', m004],
   ['010-firmware', m010],
+  ['020-bench-slots', m020],
 ];
 
 export function createMigrator(sequelize: Sequelize, log = false) {

@@ -18,6 +18,7 @@ import * as s002 from './seeders/002-demo-tickets';
 import * as s003 from './seeders/003-demo-club-settings';
 import { DEMO_CLUB_NAME } from './seeders/demo-club';
 import * as s004 from './seeders/004-demo-firmware';
+import * as s020 from './seeders/020-demo-benches';
 import { seedBoardLoad } from './seeders/board-load';
 
 export { seedBoardLoad };
@@ -28,6 +29,7 @@ const SEEDERS: [string, Seed][] = [
   ['002-demo-tickets', s002],
   ['003-demo-club-settings', s003],
   ['004-demo-firmware', s004],
+  ['020-demo-benches', s020],
 ];
 
 export function createSeeder(sequelize: Sequelize, log = false) {

@@ -4,8 +4,10 @@
 import { after, before, test } from 'node:test';
 import assert from 'node:assert/strict';
 import type { IncomingMessage } from 'node:http';
+import { QueryTypes } from 'sequelize';
 import { anonymous, createUser, registeredRoutes, setupTestApp, signIn, tableSnapshot, type TestApp, type TestClient } from '../test/helpers';
 import type { Role } from './contracts/accounts';
+import { benchWithSession, insertBooking } from '../test/bench-fixtures';
 
 type Actor = 'anonymous' | 'owner' | 'otherMember' | 'technician' | 'treasurer' | 'admin';
 const ACTORS: Actor[] = ['anonymous', 'owner', 'otherMember', 'technician', 'treasurer', 'admin'];
@@ -50,7 +52,30 @@ const ACCESS: Record<string, Actor[]> = {
   'GET /api/tickets/:tag/flash-attempts': BENCH,
   'POST /api/tickets/:tag/flash-attempts': BENCH,
   'GET /api/tickets/:tag/flash-attempts/:number/log': BENCH,
+  'GET /api/benches': SIGNED_IN,
+  'POST /api/benches': ['admin'],
+  'PATCH /api/benches/:benchId': ['admin'],
+  'GET /api/benches/settings': SIGNED_IN,
+  'PATCH /api/benches/settings': ['admin'],
+  'GET /api/benches/opening-rules': ['admin'],
+  'POST /api/benches/opening-rules': ['admin'],
+  'DELETE /api/benches/opening-rules/:ruleId': ['admin'],
+  'GET /api/bookings/calendar/sessions.ics': ACTORS,
+  'GET /api/bookings/calendar/member.ics': ACTORS, // the secret token is the key (no token: 400, wrong: 404)
+  'GET /api/bookings/calendar': SIGNED_IN,
+  'POST /api/bookings/calendar/reset': SIGNED_IN,
+  'GET /api/bookings/slots': SIGNED_IN,
+  'GET /api/bookings/schedule': ['technician', 'admin'],
+  'GET /api/bookings': SIGNED_IN, // each person's own
+  'POST /api/bookings': ['owner', 'otherMember', 'technician', 'admin'],
+  'GET /api/bookings/:bookingId': ['owner', 'technician', 'treasurer', 'admin'],
+  'PATCH /api/bookings/:bookingId': ['owner'],
+  'POST /api/bookings/:bookingId/cancel': ['owner', 'admin'],
+  'POST /api/bookings/:bookingId/no-show': ['technician', 'admin'],
 };
+
+/** Routes where someone else's object answers 404 (it is not theirs to know about), not 403. */
+const NOT_YOURS = new Set(['GET /api/bookings/:bookingId', 'PATCH /api/bookings/:bookingId', 'POST /api/bookings/:bookingId/cancel']);
 
 const PASSWORD = 'matrix-sweep-passphrase';
 const ACCOUNTS: Record<Exclude<Actor, 'anonymous'>, Role[]> = {
@@ -65,6 +90,7 @@ let t: TestApp;
 let ticketTag = '';
 let otherMemberId = 0;
 let firmwareId = 0;
+let bench = { benchId: 0, ruleId: 0, bookingId: 0 };
 
 before(async () => {
   // Every request below signs in afresh; lift the per-address throttle for this sweep only.
@@ -110,6 +136,10 @@ before(async () => {
     .field('outcome', 'transfer_completed')
     .attach('serialLog', Buffer.from('Erase OK\nTransfer complete\n'), 'log.txt');
   assert.equal(attempt.status, 201, attempt.text);
+  const fixture = await benchWithSession();
+  const ownerId = (await t.sequelize.query<{ id: number }>("SELECT id FROM users WHERE email = 'owner@matrix.example'", { type: QueryTypes.SELECT }))[0]!.id;
+  const booking = await insertBooking(t.sequelize, { benchId: fixture.bench.id, userId: ownerId, start: fixture.at('19:00') });
+  bench = { benchId: fixture.bench.id, ruleId: fixture.rule.id, bookingId: booking.id };
 });
 
 after(() => t.close());
@@ -122,6 +152,12 @@ async function client(actor: Actor): Promise<TestClient> {
 function urlFor(path: string): string {
   const id = path.startsWith('/api/firmware/') ? firmwareId : otherMemberId;
   return path.replace(':tag', ticketTag).replace(':id', String(id)).replace(':number', '1');
+  return path
+    .replace(':tag', ticketTag)
+    .replace(':id', String(otherMemberId))
+    .replace(':benchId', String(bench.benchId))
+    .replace(':ruleId', String(bench.ruleId))
+    .replace(':bookingId', String(bench.bookingId));
 }
 
 test('every registered API route has a row in the access matrix', () => {
@@ -144,14 +180,30 @@ for (const [route, allowed] of Object.entries(ACCESS)) {
       // An empty body: an allowed actor meets validation (or succeeds), a refused one meets the guard.
       const url = urlFor(path);
       const res =
-        method === 'GET' ? await streamSafeGet(c, url) : method === 'PATCH' ? await c.patch(url, {}) : await c.post(url, {});
+        method === 'GET'
+          ? await streamSafeGet(c, url)
+          : method === 'PATCH'
+            ? await c.patch(url, {})
+            : method === 'DELETE'
+              ? await c.delete(url)
+              : await c.post(url, {});
       const refused = res.status === 401 || res.status === 403 || (res.status === 404 && path.includes(':'));
       if (allowed.includes(actor)) {
         assert.ok(!refused, `${actor} was refused ${route} with ${res.status}: ${res.text}`);
         assert.ok(res.status < 500, `${actor} got ${res.status} from ${route}`);
       } else {
         // Someone else's ticket reads as "not found"; routes closed to a role answer 403 before looking.
-        const expected = actor === 'anonymous' ? [401] : path.includes(':tag') && method === 'GET' ? (allowed === BENCH ? [403] : [404]) : [403];
+        // Bench-only routes under a ticket refuse the role first (403); someone else's booking is 404 too.
+        const expected =
+          actor === 'anonymous'
+            ? [401]
+            : NOT_YOURS.has(route)
+              ? [404]
+              : path.includes(':tag') && method === 'GET'
+                ? allowed === BENCH
+                  ? [403]
+                  : [404]
+                : [403];
         assert.ok(expected.includes(res.status), `${actor} got ${res.status} from ${route}, expected ${expected.join(' or ')}`);
         assert.equal(typeof res.body?.error?.message, 'string', 'a refusal carries a message');
         assert.deepEqual(await tableSnapshot(t.sequelize), before, `${actor}'s refused ${route} changed the database`);

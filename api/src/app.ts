@@ -21,6 +21,8 @@ import { createBoardRouter } from './modules/board/board.router';
 import { calcRouter } from './modules/calc/calc.router';
 import { createFirmwareRouter } from './modules/firmware/firmware.router';
 import { createFlashAttemptsRouter } from './modules/firmware/flash-attempts.router';
+import { createBenchesRouter } from './modules/benches/benches.router';
+import { createBookingsRouter } from './modules/bookings/bookings.router';
 
 export function createApp(init: AppDepsInit): express.Express {
   const deps = appDeps(init);
@@ -86,6 +88,8 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use('/api/board', createBoardRouter(deps));
   app.use('/api/calc', requireSignedIn, calcRouter);
   app.use('/api/firmware', createFirmwareRouter(deps));
+  app.use('/api/benches', createBenchesRouter(deps));
+  app.use('/api/bookings', createBookingsRouter(deps));
   app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route.', 'route_not_found')));
 
   // The built client, with the single-page fallback for its routes.

@@ -4,12 +4,16 @@ import { initUserModels, PasswordReset, User, UserRole } from './modules/users/u
 import { initTicketModels, Ticket, TicketEvent } from './modules/tickets/ticket.model';
 import { initOutboxModel } from './modules/outbox/outbox.model';
 import { initClubSettingsModel } from './modules/club/club-settings.model';
+import { initBenchModels } from './modules/benches/bench.model';
+import { initBookingModels } from './modules/bookings/booking.model';
 
 export function initModels(sequelize: Sequelize): void {
   initUserModels(sequelize);
   initTicketModels(sequelize);
   initOutboxModel(sequelize);
   initClubSettingsModel(sequelize);
+  initBenchModels(sequelize);
+  initBookingModels(sequelize);
 
   User.hasMany(UserRole, { as: 'roleRows', foreignKey: 'userId' });
   UserRole.belongsTo(User, { foreignKey: 'userId' });

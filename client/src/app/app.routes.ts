@@ -63,6 +63,22 @@ export const routes: Routes = [
     loadChildren: () => import('./features/accounts/accounts.routes').then((m) => m.ACCOUNT_ROUTES),
   },
   {
+    path: 'bookings',
+    canActivate: [signedInGuard],
+    loadChildren: () => import('./features/bookings/bookings.routes').then((m) => m.BOOKING_ROUTES),
+  },
+  {
+    path: 'tonight',
+    title: 'Tonight at the bench · Rigwright',
+    canActivate: [roleGuard('technician', 'admin')],
+    loadComponent: () => import('./features/bookings/tonight-page/tonight-page').then((m) => m.TonightPage),
+  },
+  {
+    path: 'admin/benches',
+    canActivate: [roleGuard('admin')],
+    loadChildren: () => import('./features/benches/benches.routes').then((m) => m.BENCH_ROUTES),
+  },
+  {
     path: 'calculators',
     title: 'Bench calculators · Rigwright',
     canActivate: [signedInGuard],

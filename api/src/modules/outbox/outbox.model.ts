@@ -19,6 +19,9 @@ export class Outbox extends Model<InferAttributes<Outbox>, InferCreationAttribut
   declare subject: string;
   declare textBody: string;
   declare ticketId: number | null;
+  /** Not sent before this instant (e.g. a booking's day-before reminder); null: as soon as possible. */
+  declare sendAfter: CreationOptional<Date | null>;
+  declare bookingId: CreationOptional<number | null>;
   declare status: CreationOptional<OutboxStatus>;
   declare attempts: CreationOptional<number>;
   declare nextAttemptAt: Date;
@@ -37,6 +40,8 @@ export function initOutboxModel(sequelize: Sequelize): void {
       subject: { type: DataTypes.STRING(200), allowNull: false },
       textBody: { type: DataTypes.TEXT, allowNull: false },
       ticketId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      sendAfter: { type: DataTypes.DATE(3), allowNull: true },
+      bookingId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       status: { type: DataTypes.ENUM(...OUTBOX_STATUSES), allowNull: false, defaultValue: 'pending' },
       attempts: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
       nextAttemptAt: { type: DataTypes.DATE(3), allowNull: false },

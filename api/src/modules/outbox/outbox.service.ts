@@ -14,6 +14,9 @@ export interface MailToQueue extends MailContent {
   kind: string;
   to: string;
   ticketId?: number | null;
+  bookingId?: number | null;
+  /** Hold the mail until this instant (the worker skips it before then). */
+  sendAfter?: Date | null;
 }
 
 /** Writes one pending outbox row in `transaction`, due at `now` (the caller's clock), and returns its id. */
@@ -25,7 +28,9 @@ export async function enqueueMail(transaction: Transaction, mail: MailToQueue, n
       subject: mail.subject.slice(0, 200),
       textBody: mail.text,
       ticketId: mail.ticketId ?? null,
-      nextAttemptAt: now,
+      bookingId: mail.bookingId ?? null,
+      sendAfter: mail.sendAfter ?? null,
+      nextAttemptAt: mail.sendAfter ?? now,
       createdAt: now,
       lockedUntil: null,
       lastError: null,

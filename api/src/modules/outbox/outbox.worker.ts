@@ -117,7 +117,7 @@ export function startOutboxWorker(deps: OutboxWorkerDeps, options: OutboxWorkerO
     return sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
       const now = clock();
       const due = await sequelize.query<{ id: number | string }>(
-        "SELECT id FROM outbox WHERE status = 'pending' AND next_attempt_at <= :now " +
+        "SELECT id FROM outbox WHERE status = 'pending' AND next_attempt_at <= :now AND (send_after IS NULL OR send_after <= :now) " +
           'AND (locked_until IS NULL OR locked_until < :now) ORDER BY next_attempt_at, id LIMIT :limit FOR UPDATE SKIP LOCKED',
         { replacements: { now, limit: opts.batchSize }, type: QueryTypes.SELECT, transaction },
       );

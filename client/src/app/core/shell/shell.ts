@@ -25,9 +25,12 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/board', label: 'Bench board', icon: 'view_kanban', roles: ['technician', 'admin'] },
   { path: '/tickets', label: 'Tickets', icon: 'confirmation_number', roles: [] },
   { path: '/hand-in', label: 'Hand in equipment', icon: 'move_to_inbox', roles: ['member', 'technician', 'admin'] },
+  { path: '/tonight', label: 'Tonight at the bench', icon: 'nights_stay', roles: ['technician', 'admin'] },
+  { path: '/bookings', label: 'Bench slots', icon: 'event_available', roles: [] },
   { path: '/firmware', label: 'Firmware library', icon: 'memory', roles: ['technician', 'admin'] },
   { path: '/calculators', label: 'Bench calculators', icon: 'calculate', roles: [] },
   { path: '/admin/accounts', label: 'Accounts', icon: 'manage_accounts', roles: ['admin'] },
+  { path: '/admin/benches', label: 'Benches and sessions', icon: 'table_restaurant', roles: ['admin'] },
 ];
 
 /** The app's frame: a toolbar, and a side navigation once someone is signed in. */
