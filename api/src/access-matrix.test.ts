@@ -151,10 +151,10 @@ async function client(actor: Actor): Promise<TestClient> {
 
 function urlFor(path: string): string {
   const id = path.startsWith('/api/firmware/') ? firmwareId : otherMemberId;
-  return path.replace(':tag', ticketTag).replace(':id', String(id)).replace(':number', '1');
   return path
     .replace(':tag', ticketTag)
-    .replace(':id', String(otherMemberId))
+    .replace(':id', String(id))
+    .replace(':number', '1')
     .replace(':benchId', String(bench.benchId))
     .replace(':ruleId', String(bench.ruleId))
     .replace(':bookingId', String(bench.bookingId));
