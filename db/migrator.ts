@@ -7,6 +7,7 @@ import * as m002 from './migrations/002-tickets';
 import * as m004 from './migrations/004-club-name';
 import * as m010 from './migrations/010-firmware';
 import * as m020 from './migrations/020-bench-slots';
+import * as m025 from './migrations/025-ticket-events-open';
 
 type Step = { up(qi: QueryInterface): Promise<void>; down(qi: QueryInterface): Promise<void> };
 const MIGRATIONS: [string, Step][] = [
@@ -15,6 +16,7 @@ const MIGRATIONS: [string, Step][] = [
   ['004-club-name', m004],
   ['010-firmware', m010],
   ['020-bench-slots', m020],
+  ['025-ticket-events-open', m025],
 ];
 
 export function createMigrator(sequelize: Sequelize, log = false) {

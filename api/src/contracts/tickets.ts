@@ -7,7 +7,12 @@ export const EQUIPMENT_KINDS = ['transceiver', 'amplifier', 'tuner', 'power_supp
 export type EquipmentKind = (typeof EQUIPMENT_KINDS)[number];
 
 /** `kind` of a timeline event in `GET /api/tickets/:tag`. */
-export const EVENT_KINDS = ['opened', 'moved', 'note'] as const;
+// Kinds of timeline events; stored as text (migration 025), so a new kind is one more line here.
+export const EVENT_KINDS = [
+  'opened',
+  'moved',
+  'note',
+] as const;
 export type EventKind = (typeof EVENT_KINDS)[number];
 
 /** A row of `GET /api/tickets`. */

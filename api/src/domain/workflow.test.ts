@@ -11,7 +11,8 @@ const easy = (state: TicketState): MoveFacts => ({
   hasVerifiedFlash: true,
   hasPassedTestSheet: true,
   hasFailedTestSheet: true,
-  readyToClose: true,
+  returnedItemsChecked: true,
+  balanceSettled: true,
   awaitingApproval: false,
 });
 
@@ -91,7 +92,8 @@ describe('guards', () => {
     assert.deepEqual(checkMove(easy('bench_test'), 'repair'), { allowed: true });
   });
   it('return → closed needs fees settled and the checklist done', () => {
-    assert.match(reasonOf({ ...easy('return'), readyToClose: false }, 'closed'), /Fees are not settled/);
+    assert.match(reasonOf({ ...easy('return'), returnedItemsChecked: false }, 'closed'), /returned-items checklist/);
+    assert.match(reasonOf({ ...easy('return'), balanceSettled: false }, 'closed'), /Fees are not settled/);
   });
   it('a quote awaiting approval holds every move except going back to the owner', () => {
     const held = (s: TicketState) => ({ ...easy(s), awaitingApproval: true });
@@ -104,7 +106,7 @@ describe('guards', () => {
   it('moves with no guard (intake → diagnosis, repair → bench test) pass with every fact false', () => {
     const none = (s: TicketState): MoveFacts => ({
       state: s, reflashConsent: false, hasVerifiedFlash: false, hasPassedTestSheet: false,
-      hasFailedTestSheet: false, readyToClose: false, awaitingApproval: false,
+      hasFailedTestSheet: false, returnedItemsChecked: false, balanceSettled: false, awaitingApproval: false,
     });
     assert.deepEqual(checkMove(none('intake'), 'diagnosis'), { allowed: true });
     assert.deepEqual(checkMove(none('repair'), 'bench_test'), { allowed: true });
@@ -115,7 +117,7 @@ describe('guards', () => {
 describe('which moves need a note (moveRequirement: one place for the board, the ticket page and the server)', () => {
   const none = (s: TicketState): MoveFacts => ({
     state: s, reflashConsent: false, hasVerifiedFlash: false, hasPassedTestSheet: false,
-    hasFailedTestSheet: false, readyToClose: false, awaitingApproval: false,
+    hasFailedTestSheet: false, returnedItemsChecked: false, balanceSettled: false, awaitingApproval: false,
   });
   it('diagnosis → return always needs a note, saying why it goes back unrepaired', () => {
     const need = moveRequirement(easy('diagnosis'), 'return');
@@ -169,7 +171,8 @@ describe('properties', () => {
       hasVerifiedFlash: fc.boolean(),
       hasPassedTestSheet: fc.boolean(),
       hasFailedTestSheet: fc.boolean(),
-      readyToClose: fc.boolean(),
+      returnedItemsChecked: fc.boolean(),
+      balanceSettled: fc.boolean(),
       awaitingApproval: fc.boolean(),
     });
     fc.assert(

@@ -42,8 +42,10 @@ export interface MoveFacts {
   hasPassedTestSheet: boolean;
   /** A failed test sheet. */
   hasFailedTestSheet: boolean;
-  /** Fees settled or waived, and the returned-items checklist done (arrive with fees and return). */
-  readyToClose: boolean;
+  /** The returned-items checklist matches what was handed in, or each difference is explained (hand-back). */
+  returnedItemsChecked: boolean;
+  /** The ticket's balance is zero or waived by the treasurer (fees). */
+  balanceSettled: boolean;
   /** A quote above the club's threshold waits for the owner. */
   awaitingApproval: boolean;
 }
@@ -104,7 +106,8 @@ export function moveRequirement(facts: MoveFacts, to: TicketState): MoveRequirem
       if (!facts.hasFailedTestSheet) return needsNote('Say what failed on the bench in the note, or record a failed test sheet.');
       break;
     case 'return>closed':
-      if (!facts.readyToClose) return refuse('Fees are not settled and the returned-items checklist is not done yet.');
+      if (!facts.returnedItemsChecked) return refuse('The returned-items checklist is not done yet.');
+      if (!facts.balanceSettled) return refuse('Fees are not settled yet (the balance must be zero or waived by the treasurer).');
       break;
   }
   return FREE;

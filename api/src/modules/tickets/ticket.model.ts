@@ -53,6 +53,8 @@ export class TicketEvent extends Model<InferAttributes<TicketEvent>, InferCreati
   declare fromState: TicketState | null;
   declare toState: TicketState | null;
   declare note: string | null;
+  /** Whether the owner may read this event (status page, mails); internal bench records are not. */
+  declare ownerVisible: CreationOptional<boolean>;
   declare createdAt: CreationOptional<Date>;
 
   /** Loaded with `include: [{ association: 'actor' }]`. */
@@ -120,10 +122,11 @@ export function initTicketModels(sequelize: Sequelize): void {
     {
       id: { type: DataTypes.BIGINT.UNSIGNED, autoIncrement: true, primaryKey: true },
       actorId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
-      kind: { type: DataTypes.ENUM(...EVENT_KINDS), allowNull: false },
+      kind: { type: DataTypes.STRING(40), allowNull: false, validate: { isIn: [EVENT_KINDS as unknown as string[]] } },
       fromState: { type: DataTypes.ENUM(...STATES), allowNull: true },
       toState: { type: DataTypes.ENUM(...STATES), allowNull: true },
       note: { type: DataTypes.TEXT, allowNull: true },
+      ownerVisible: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       createdAt: { type: DataTypes.DATE(3) },
     },
     { sequelize, tableName: 'ticket_events', modelName: 'TicketEvent', underscored: true, updatedAt: false },

@@ -39,25 +39,33 @@ function ticketLink(config: TicketsDeps['config'], tag: string): string {
   return `${config.RW_PUBLIC_URL.replace(/\/$/, '')}/tickets/${tag}`;
 }
 
-/** Facts the guards need that other features record in their own tables. */
-export type RecordedFacts = Pick<MoveFacts, 'hasVerifiedFlash'>;
+/**
+ * Facts the guards need that features record in their own tables. Each feature adds its fact here,
+ * read by its own service function; a fact whose feature has not landed yet stays false, so the
+ * move that needs it is refused with the reason.
+ */
+export type RecordedFacts = Pick<
+  MoveFacts,
+  'hasVerifiedFlash' | 'hasPassedTestSheet' | 'hasFailedTestSheet' | 'returnedItemsChecked' | 'balanceSettled'
+>;
 
 export async function recordedFactsOf(sequelize: Sequelize, ticketId: number, transaction?: Transaction): Promise<RecordedFacts> {
-  return { hasVerifiedFlash: await hasVerifiedFlash(sequelize, ticketId, transaction) };
+  const [verifiedFlash] = await Promise.all([hasVerifiedFlash(sequelize, ticketId, transaction)]);
+  return {
+    hasVerifiedFlash: verifiedFlash,
+    hasPassedTestSheet: false,
+    hasFailedTestSheet: false,
+    returnedItemsChecked: false,
+    balanceSettled: false,
+  };
 }
 
-/**
- * The facts the workflow guards need. Test sheets and fees arrive with later features; until then
- * they are false, so the moves that need them are refused with the reason.
- */
+/** The facts the workflow guards need: the ticket's own columns and the recorded facts. */
 export function moveFactsOf(ticket: Pick<Ticket, 'state' | 'reflashConsent' | 'awaitingApproval'>, recorded: RecordedFacts): MoveFacts {
   return {
     state: ticket.state,
     reflashConsent: ticket.reflashConsent,
-    hasVerifiedFlash: recorded.hasVerifiedFlash,
-    hasPassedTestSheet: false,
-    hasFailedTestSheet: false,
-    readyToClose: false,
+    ...recorded,
     awaitingApproval: ticket.awaitingApproval,
   };
 }
@@ -111,7 +119,7 @@ export async function openTicket(deps: TicketsDeps, user: SessionUser, input: In
       { transaction },
     );
     await TicketEvent.create(
-      { ticketId: ticket.id, actorId: user.id, kind: 'opened', fromState: null, toState: 'intake', note: null, createdAt: now },
+      { ticketId: ticket.id, actorId: user.id, kind: 'opened', fromState: null, toState: 'intake', note: null, ownerVisible: true, createdAt: now },
       { transaction },
     );
     if (ticket.notifyByEmail) {
@@ -285,7 +293,7 @@ export async function moveTicket(deps: TicketsDeps, user: SessionUser, input: { 
       throw err;
     }
     await TicketEvent.create(
-      { ticketId: current.id, actorId: user.id, kind: 'moved', fromState: from, toState: input.to, note: input.note ?? null, createdAt: now },
+      { ticketId: current.id, actorId: user.id, kind: 'moved', fromState: from, toState: input.to, note: input.note ?? null, ownerVisible: true, createdAt: now },
       { transaction },
     );
     if (current.notifyByEmail) {

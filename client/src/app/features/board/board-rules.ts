@@ -17,7 +17,8 @@ export function cardMoveRequirement(card: Card, to: TicketState): MoveRequiremen
       reflashConsent: true,
       hasVerifiedFlash: true,
       hasPassedTestSheet: true,
-      readyToClose: true,
+      returnedItemsChecked: true,
+      balanceSettled: true,
     },
     to,
   );
