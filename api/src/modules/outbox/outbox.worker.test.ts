@@ -14,8 +14,9 @@ import { createTestClock, createUser, setClubName, setupTestApp, signIn, truncat
 import { enqueueMail } from './outbox.service';
 import { mailSender, outboxMessageId, retryDelayMs, startOutboxWorker, type OutboxWorkerOptions } from './outbox.worker';
 
-const SMTP_PORT = 1125;
-const WEB_PORT = 1180;
+// One above the browser suite's mail ports when those are set (so parallel checkouts each have their own).
+const SMTP_PORT = Number(process.env.RW_E2E_SMTP_PORT ?? 1124) + 1;
+const WEB_PORT = Number(process.env.RW_E2E_MAIL_WEB_PORT ?? 1179) + 1;
 const PW = 'correct horse battery';
 
 let t: TestApp;
