@@ -74,6 +74,11 @@ export class FlashRun {
     this.apply(this.sender.start(this.now()));
   }
 
+  /** The check the unit asked for (null until it has asked). */
+  get check(): 'crc' | 'sum' | null {
+    return this.sender.check;
+  }
+
   /** Bytes from the unit while the run is on. */
   receive(bytes: Uint8Array): void {
     if (this.sender.finished) return;
