@@ -21,7 +21,7 @@ import { atLeast, sizeText } from '../../firmware/firmware-format';
 import { FIRMWARE_UNITS, FIRMWARE_UNIT_LABELS, FLASH_OUTCOME_LABELS, type FirmwareUnit, type FlashOutcome, type TrackRecordRow } from '../../firmware/firmware.models';
 import { OUTCOME_ICONS } from '../../firmware/flash-attempts/flash-attempts';
 import { TicketApi } from '../../tickets/ticket-api';
-import { FlashRun } from '../flash-run';
+import type { FlashRun } from '../flash-run';
 import { FlashTerminal, type TypedBytes } from '../flash-terminal/flash-terminal';
 import { FlasherApi } from '../flasher-api';
 import {
@@ -37,6 +37,7 @@ import {
   type PendingRun,
 } from '../flasher-record';
 import { openPracticeLink } from '../practice-link';
+import { RecordedRun } from '../recorded-run';
 import { NO_FAULTS, PracticePanel, type PracticeFaultsForm } from '../practice-panel/practice-panel';
 import { DEFAULT_SERIAL_SETTINGS, describeSerial, type SerialLink, type SerialSettings } from '../serial-link';
 import { openWebSerialLink, webSerialUnavailableReason } from '../web-serial-link';
@@ -161,8 +162,7 @@ export class FlasherPage {
   protected readonly run = signal<FlashRun | null>(null);
   protected readonly progress = computed(() => this.run()?.progress() ?? null);
   protected readonly running = computed(() => !!this.run() && !this.progress()?.outcome);
-  private pending: PendingRun | null = null;
-  private keepTimer: ReturnType<typeof setInterval> | null = null;
+  private recorded: RecordedRun | null = null;
   protected readonly save = signal<SaveState>({ kind: 'idle' });
   protected readonly saving = computed(() => { const s = this.save(); return s.kind === 'saving' ? s : null; });
   protected readonly saved = computed(() => { const s = this.save(); return s.kind === 'saved' ? s : null; });
@@ -180,7 +180,7 @@ export class FlasherPage {
   constructor() {
     inject(DestroyRef).onDestroy(() => {
       this.run()?.cancel('The Flasher page was left during the run.');
-      this.stopKeeping();
+      this.recorded?.stopKeeping();
       void this.link()?.close();
     });
     this.route.queryParamMap.pipe(takeUntilDestroyed()).subscribe((q) => {
@@ -312,62 +312,28 @@ export class FlasherPage {
     this.save.set({ kind: 'idle' });
     this.completed.set(null);
     this.verified.set(null);
-    const before = this.sessionLog.slice(this.logMark);
-    const run = new FlashRun(link, v.bytes, { block: this.block(), baud: this.settings().baudRate });
-    this.run.set(run);
-    this.pending = {
-      v: 1,
+    const recorded = new RecordedRun(link, v.bytes, {
       tag: ticket.tag,
       unit,
       firmwareId: v.image.firmwareId,
       imageVersion: v.image.version,
       blocks: plan.blocks,
-      port: link.label,
-      settings: { ...this.settings() },
+      settings: this.settings(),
       block: this.block(),
-      check: 'crc',
-      startedAt: new Date().toISOString(),
-      elapsedMs: 0,
-      acknowledged: 0,
-      phase: 'waiting',
-      retries: [],
-      outcome: null,
       planSeconds: plan.seconds,
-      log: before,
-    };
-    const keep = () => {
-      const p = run.progress();
-      if (!this.pending) return;
-      Object.assign(this.pending, {
-        elapsedMs: p.elapsedMs,
-        acknowledged: p.acknowledged,
-        phase: p.phase,
-        retries: p.retries.map((r) => ({ block: r.block, text: r.text })),
-        outcome: p.outcome,
-        check: run.check ?? 'crc',
-        log: cleanLog(before + run.log.join('')),
-      });
-      keepPendingRun(this.pending);
-    };
-    keep();
-    this.keepTimer = setInterval(keep, 1000);
-    void run.ended.then(() => {
-      this.stopKeeping();
-      keep();
+      logBefore: this.sessionLog.slice(this.logMark),
+    });
+    this.recorded = recorded;
+    this.run.set(recorded.run);
+    void recorded.finished.then((done) => {
       this.logMark = this.sessionLog.length;
-      const done = this.pending!;
-      this.pending = null;
+      this.recorded = null;
       this.saveRun(done);
     });
   }
 
   protected cancel(): void {
     this.run()?.cancel('Cancelled at the bench.');
-  }
-
-  private stopKeeping(): void {
-    if (this.keepTimer !== null) clearInterval(this.keepTimer);
-    this.keepTimer = null;
   }
 
   /** Saves a run as a flash attempt; on failure it stays in localStorage to be saved later. */
