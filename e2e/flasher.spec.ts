@@ -85,6 +85,7 @@ test('flash the practice unit: a power dip fails at its block, the second run co
   await page.getByRole('button', { name: 'Send the image' }).click();
   await expect(page.getByText('the supply dipped as block 4 arrived')).toBeVisible();
   await expect(terminal).toContainText(/SIMULATED display unit[\s\S]*SIMULATED display unit/);
+  await expect(page.getByText('it may have restarted')).toBeVisible();
   await page.screenshot({ path: `${SCREENSHOTS}/flasher-power-dip.png`, fullPage: true });
   await page.getByRole('button', { name: 'Cancel the transfer' }).click();
   await expect(page.getByTestId('run-outcome')).toContainText('Transfer failed at block 4 of 8.');
