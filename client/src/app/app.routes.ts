@@ -57,6 +57,11 @@ export const routes: Routes = [
     loadChildren: () => import('./features/firmware/firmware.routes').then((m) => m.FIRMWARE_ROUTES),
   },
   {
+    path: 'flasher',
+    canActivate: [roleGuard('technician', 'admin')],
+    loadChildren: () => import('./features/flasher/flasher.routes').then((m) => m.FLASHER_ROUTES),
+  },
+  {
     path: 'admin/accounts',
     title: 'Accounts · Rigwright',
     canActivate: [roleGuard('admin')],

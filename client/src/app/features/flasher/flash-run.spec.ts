@@ -58,6 +58,7 @@ describe('FlashRun against the practice unit', () => {
     expect(outcome?.kind).toBe('transfer_completed');
     expect(run.progress().acknowledged).toBe(7);
     expect(run.progress().retries).toEqual([]);
+    expect(run.progress().unitTalkedMidTransfer).toBe(false);
     // 7 blocks of 1029 bytes and the EOT at 115200 baud take at least 7204 × 10 / 115200 s ≈ 0.63 s of line time.
     expect(run.progress().elapsedMs).toBeGreaterThanOrEqual(625);
     expect(run.log.join('')).toContain('Transfer complete: 7 blocks, 0 retries.');
@@ -73,6 +74,7 @@ describe('FlashRun against the practice unit', () => {
     const run = startRun(p.link, img);
     for (let t = 0; t < 30_000 && !run.log.join('').includes('SIMULATED display unit'); t += 100) await vi.advanceTimersByTimeAsync(100);
     expect(run.log.join('')).toContain('SIMULATED display unit');
+    expect(run.progress().unitTalkedMidTransfer).toBe(true);
     run.cancel('The unit restarted during the transfer.');
     const outcome = await untilEnded(run);
     expect(outcome).toEqual({ kind: 'transfer_failed', block: 3, reason: 'The unit restarted during the transfer.' });

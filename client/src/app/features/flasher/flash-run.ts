@@ -25,6 +25,8 @@ export interface FlashProgress {
   /** Seconds left at the line rate for the blocks still to go, or null before the start. */
   secondsLeft: number | null;
   retries: { block: number; reason: RetryReason; text: string }[];
+  /** The unit printed text in the middle of the transfer (a restart banner, a loader menu): it may have reset. */
+  unitTalkedMidTransfer: boolean;
   outcome: FlashOutcome | null;
 }
 
@@ -67,11 +69,17 @@ export class FlashRun {
       rate: 0,
       secondsLeft: null,
       retries: [],
+      unitTalkedMidTransfer: false,
       outcome: null,
     });
     this.ended = new Promise((resolve) => (this.resolveEnd = resolve));
     this.note(`Waiting for the unit to ask for the image (NAK or 'C'); ${this.sender.blocks} blocks of ${options.block} bytes.`);
     this.apply(this.sender.start(this.now()));
+  }
+
+  /** The check the unit asked for (null until it has asked). */
+  get check(): 'crc' | 'sum' | null {
+    return this.sender.check;
   }
 
   /** Bytes from the unit while the run is on. */
@@ -80,7 +88,11 @@ export class FlashRun {
     // What the unit prints goes to the log: everything before the start, and text (not single
     // protocol bytes) during the transfer, such as the banner of a unit that restarted.
     const text = printable(bytes);
-    if (text && (this.sender.state === 'waiting' || text.replace(/\s/g, '').length >= 4)) this.log.push(text);
+    const words = text.replace(/\s/g, '').length >= 4;
+    if (text && (this.sender.state === 'waiting' || words)) this.log.push(text);
+    if (words && this.sender.state !== 'waiting' && !this.progress().unitTalkedMidTransfer) {
+      this.progress.update((p) => ({ ...p, unitTalkedMidTransfer: true }));
+    }
     this.apply(this.sender.receive(bytes, this.now()));
   }
 
