@@ -50,17 +50,20 @@ export const TEST_LIMIT_DEFINITIONS: Record<TestLimitKey, TestLimitDefinition> =
   receiveCurrentMaxA: { label: 'Highest receive current', unit: 'A', bound: { min: 0, max: 100, aboveMin: true, unit: 'A' } },
 };
 
+const POWER_SOURCE = 'Common practice: output from −1 dB (about 79 %) to +1 dB of the rating into a dummy load (no published source).';
+const SUPPLY_SOURCE = 'Common practice: 13.8 V ± 15 %, the usual supply tolerance of 12 V mobile transceivers (no published source; check the radio’s manual).';
+
 /** The limits a club starts with, until an admin sets its own. */
 export const DEFAULT_TEST_LIMITS: TestLimits = {
   swrMax: { value: 1.5, source: 'Common practice: SWR at most 1.5:1 into a dummy load (no published source).' },
-  powerErrorMinDb: { value: -1, source: 'Common practice: output within −1 dB of the rating (about 79 % of it; no published source).' },
-  powerErrorMaxDb: { value: 1, source: 'Common practice: output no more than +1 dB over the rating (no published source).' },
+  powerErrorMinDb: { value: -1, source: POWER_SOURCE },
+  powerErrorMaxDb: { value: 1, source: POWER_SOURCE },
   frequencyErrorMaxPpm: {
     value: 1,
     source: 'Common practice: ±1 ppm, what a transceiver with a temperature-compensated reference usually holds (no published source; check the radio’s manual).',
   },
-  supplyMinV: { value: 11.7, source: 'Common practice: 13.8 V − 15 %, the usual supply tolerance of 12 V mobile transceivers (check the radio’s manual).' },
-  supplyMaxV: { value: 15.9, source: 'Common practice: 13.8 V + 15 %, the usual supply tolerance of 12 V mobile transceivers (check the radio’s manual).' },
+  supplyMinV: { value: 11.7, source: SUPPLY_SOURCE },
+  supplyMaxV: { value: 15.9, source: SUPPLY_SOURCE },
   receiveCurrentMaxA: { value: 2.5, source: 'Common practice: a 100 W HF transceiver draws about 1 to 2.5 A on receive (no published source; check the radio’s manual).' },
 };
 

@@ -70,7 +70,7 @@ export class RepairLog {
   protected readonly canRecord = computed(() => this.session.worksTheBench() && this.summary.hasValue() && this.summary.value().canRecord);
 
   protected readonly workColumns = ['at', 'description', 'minutes', 'technician'];
-  protected readonly workPhone = ['at', 'description', 'minutes'];
+  protected readonly workPhone = ['description', 'minutes'];
   protected readonly partColumns = ['at', 'description', 'quantity', 'unitCost', 'cost'];
   protected readonly partPhone = ['description', 'quantity', 'cost'];
 

@@ -26,6 +26,12 @@ export function fixed(value: number | null | undefined, digits: number): string 
   return Number(text) === 0 ? (0).toFixed(digits) : text.replace('-', '−');
 }
 
+/** A figure with its sign: +0.56, −0.22, 0.00. */
+export function signed(value: number | null | undefined, digits: number): string {
+  const text = fixed(value, digits);
+  return text !== '—' && Number(value!.toFixed(digits)) > 0 ? `+${text}` : text;
+}
+
 /** The Bench test lane's record: the RF caution, the sheet form with live figures, and every sheet with its report. */
 @Component({
   selector: 'rw-test-sheet',
@@ -55,6 +61,7 @@ export class TestSheetSection {
   protected readonly session = inject(SessionStore);
   protected readonly message = controlMessage;
   protected readonly fixed = fixed;
+  protected readonly signed = signed;
   protected readonly maxBands = MAX_BANDS;
 
   private readonly revision = signal(0);
