@@ -72,6 +72,18 @@ const ACCESS: Record<string, Actor[]> = {
   'PATCH /api/bookings/:bookingId': ['owner'],
   'POST /api/bookings/:bookingId/cancel': ['owner', 'admin'],
   'POST /api/bookings/:bookingId/no-show': ['technician', 'admin'],
+  // Repair log: the bench's internal record (treasurers read it for parts at cost; owners never).
+  'GET /api/tickets/:tag/repair-log': ['technician', 'treasurer', 'admin'],
+  'POST /api/tickets/:tag/repair-log/work': BENCH,
+  'POST /api/tickets/:tag/repair-log/parts': BENCH,
+  // Test sheets and the hand-back: the owner reads their own ticket's; the bench records them.
+  'GET /api/tickets/:tag/test-sheets': ['owner', 'technician', 'treasurer', 'admin'],
+  'POST /api/tickets/:tag/test-sheets': BENCH,
+  'GET /api/tickets/:tag/test-sheets/:sheetId/report.pdf': ['owner', 'technician', 'treasurer', 'admin'],
+  'GET /api/tickets/:tag/hand-back': ['owner', 'technician', 'treasurer', 'admin'],
+  'POST /api/tickets/:tag/hand-back': BENCH,
+  'GET /api/test-limits': SIGNED_IN,
+  'PATCH /api/test-limits': ['admin'],
 };
 
 /** Routes where someone else's object answers 404 (it is not theirs to know about), not 403. */
@@ -91,6 +103,8 @@ let ticketTag = '';
 let otherMemberId = 0;
 let firmwareId = 0;
 let bench = { benchId: 0, ruleId: 0, bookingId: 0 };
+let sheetId = 0;
+let sheetTag = '';
 
 before(async () => {
   // Every request below signs in afresh; lift the per-address throttle for this sweep only.
@@ -136,6 +150,31 @@ before(async () => {
     .field('outcome', 'transfer_completed')
     .attach('serialLog', Buffer.from('Erase OK\nTransfer complete\n'), 'log.txt');
   assert.equal(attempt.status, 201, attempt.text);
+  // A second ticket with a test sheet, so the report route has a sheet to find.
+  const second = await owner.post('/api/tickets', {
+    equipmentKind: 'transceiver',
+    makeModel: 'Matrix test transceiver',
+    units: ['main body'],
+    faultReported: 'No transmit output.',
+    accessories: [],
+    reflashConsent: false,
+    notifyByEmail: false,
+  });
+  assert.equal(second.status, 201, second.text);
+  let secondVersion = second.body.version;
+  for (const to of ['diagnosis', 'repair', 'bench_test']) {
+    const moved = await tech.post(`/api/tickets/${second.body.tag}/moves`, { to, version: secondVersion });
+    assert.equal(moved.status, 200, moved.text);
+    secondVersion = moved.body.version;
+  }
+  const sheet = await tech.post(`/api/tickets/${second.body.tag}/test-sheets`, {
+    supplyVoltageV: 13.8,
+    receiveCurrentA: 1.2,
+    bands: [{ band: '20 m', ratedW: 100, forwardW: 100, reflectedW: 1 }],
+  });
+  assert.equal(sheet.status, 201, sheet.text);
+  sheetId = sheet.body.sheet.id;
+  sheetTag = second.body.tag;
   const fixture = await benchWithSession();
   const ownerId = (await t.sequelize.query<{ id: number }>("SELECT id FROM users WHERE email = 'owner@matrix.example'", { type: QueryTypes.SELECT }))[0]!.id;
   const booking = await insertBooking(t.sequelize, { benchId: fixture.bench.id, userId: ownerId, start: fixture.at('19:00') });
@@ -152,7 +191,8 @@ async function client(actor: Actor): Promise<TestClient> {
 function urlFor(path: string): string {
   const id = path.startsWith('/api/firmware/') ? firmwareId : otherMemberId;
   return path
-    .replace(':tag', ticketTag)
+    .replace(':tag', path.includes(':sheetId') ? sheetTag : ticketTag)
+    .replace(':sheetId', String(sheetId))
     .replace(':id', String(id))
     .replace(':number', '1')
     .replace(':benchId', String(bench.benchId))
@@ -193,16 +233,16 @@ for (const [route, allowed] of Object.entries(ACCESS)) {
         assert.ok(res.status < 500, `${actor} got ${res.status} from ${route}`);
       } else {
         // Someone else's ticket reads as "not found"; routes closed to a role answer 403 before looking.
-        // Bench-only routes under a ticket refuse the role first (403); someone else's booking is 404 too.
+        // Routes under a ticket closed to members refuse the role first (403); someone else's booking is 404 too.
         const expected =
           actor === 'anonymous'
             ? [401]
             : NOT_YOURS.has(route)
               ? [404]
               : path.includes(':tag') && method === 'GET'
-                ? allowed === BENCH
-                  ? [403]
-                  : [404]
+                ? allowed.includes('owner')
+                  ? [404]
+                  : [403]
                 : [403];
         assert.ok(expected.includes(res.status), `${actor} got ${res.status} from ${route}, expected ${expected.join(' or ')}`);
         assert.equal(typeof res.body?.error?.message, 'string', 'a refusal carries a message');

@@ -23,6 +23,9 @@ import { createFirmwareRouter } from './modules/firmware/firmware.router';
 import { createFlashAttemptsRouter } from './modules/firmware/flash-attempts.router';
 import { createBenchesRouter } from './modules/benches/benches.router';
 import { createBookingsRouter } from './modules/bookings/bookings.router';
+import { createRepairRouter } from './modules/repair/repair.router';
+import { createTestLimitsRouter, createTestSheetsRouter } from './modules/test-sheets/test-sheets.router';
+import { createHandBackRouter } from './modules/hand-back/hand-back.router';
 
 export function createApp(init: AppDepsInit): express.Express {
   const deps = appDeps(init);
@@ -84,6 +87,10 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use('/api/auth', createAuthRouter(deps));
   app.use('/api/users', createUsersRouter(deps));
   app.use('/api/tickets/:tag/flash-attempts', createFlashAttemptsRouter(deps));
+  app.use('/api/tickets/:tag/repair-log', createRepairRouter(deps));
+  app.use('/api/tickets/:tag/test-sheets', createTestSheetsRouter(deps));
+  app.use('/api/tickets/:tag/hand-back', createHandBackRouter(deps));
+  app.use('/api/test-limits', createTestLimitsRouter(deps));
   app.use('/api/tickets', createTicketsRouter(deps));
   app.use('/api/board', createBoardRouter(deps));
   app.use('/api/calc', requireSignedIn, calcRouter);

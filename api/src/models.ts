@@ -6,6 +6,9 @@ import { initOutboxModel } from './modules/outbox/outbox.model';
 import { initClubSettingsModel } from './modules/club/club-settings.model';
 import { initBenchModels } from './modules/benches/bench.model';
 import { initBookingModels } from './modules/bookings/booking.model';
+import { initRepairModels, RepairPart, RepairWork } from './modules/repair/repair.model';
+import { initTestSheetModels, TestSheetRow } from './modules/test-sheets/test-sheet.model';
+import { HandBack, initHandBackModel } from './modules/hand-back/hand-back.model';
 
 export function initModels(sequelize: Sequelize): void {
   initUserModels(sequelize);
@@ -14,6 +17,9 @@ export function initModels(sequelize: Sequelize): void {
   initClubSettingsModel(sequelize);
   initBenchModels(sequelize);
   initBookingModels(sequelize);
+  initRepairModels(sequelize);
+  initTestSheetModels(sequelize);
+  initHandBackModel(sequelize);
 
   User.hasMany(UserRole, { as: 'roleRows', foreignKey: 'userId' });
   UserRole.belongsTo(User, { foreignKey: 'userId' });
@@ -24,4 +30,8 @@ export function initModels(sequelize: Sequelize): void {
   Ticket.hasMany(TicketEvent, { as: 'events', foreignKey: 'ticketId' });
   TicketEvent.belongsTo(Ticket, { foreignKey: 'ticketId' });
   TicketEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId' });
+  RepairWork.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' });
+  RepairPart.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' });
+  TestSheetRow.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' });
+  HandBack.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' });
 }

@@ -3,7 +3,7 @@
 import type { TicketState } from '../domain/workflow';
 import type { EquipmentKind } from './tickets';
 
-/** Flags on a card of `GET /api/board` (`balance_due` and `test_failed` arrive with fees and test sheets). */
+/** Flags on a card of `GET /api/board` (`balance_due` arrives with fees; `test_failed`: the latest test sheet failed). */
 export const FLAGS = ['awaiting_approval', 'parts_on_order', 'balance_due', 'test_failed'] as const;
 export type Flag = (typeof FLAGS)[number];
 

@@ -12,6 +12,10 @@ export const EVENT_KINDS = [
   'opened',
   'moved',
   'note',
+  'repair_work',
+  'repair_part',
+  'test_sheet',
+  'hand_back',
 ] as const;
 export type EventKind = (typeof EVENT_KINDS)[number];
 

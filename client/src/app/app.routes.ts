@@ -84,6 +84,12 @@ export const routes: Routes = [
     loadChildren: () => import('./features/benches/benches.routes').then((m) => m.BENCH_ROUTES),
   },
   {
+    path: 'admin/test-limits',
+    title: 'Test limits · Rigwright',
+    canActivate: [roleGuard('admin')],
+    loadComponent: () => import('./features/bench-records/test-limits-page/test-limits-page').then((m) => m.TestLimitsPage),
+  },
+  {
     path: 'calculators',
     title: 'Bench calculators · Rigwright',
     canActivate: [signedInGuard],

@@ -33,6 +33,7 @@ type CardRecord = {
   technician_name: string | null;
   awaiting_approval: number | boolean;
   parts_on_order: number | boolean;
+  test_failed: number | boolean | null;
 };
 
 /** Builds the board from the database (no cache). Cards come oldest-in-lane first. */
@@ -51,7 +52,9 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
   }
   const rows = await sequelize.query<CardRecord>(
     'SELECT t.id, t.equipment_kind, t.make_model, t.owner_name, t.owner_call_sign, t.state, t.state_since, ' +
-      't.version, t.technician_id, u.display_name AS technician_name, t.awaiting_approval, t.parts_on_order ' +
+      't.version, t.technician_id, u.display_name AS technician_name, t.awaiting_approval, t.parts_on_order, ' +
+      // The latest test sheet failed (null: no sheet); the board flag "Test failed" follows it.
+      '(SELECT NOT s.passed FROM test_sheets s WHERE s.ticket_id = t.id ORDER BY s.number DESC LIMIT 1) AS test_failed ' +
       'FROM tickets t LEFT JOIN users u ON u.id = t.technician_id ' +
       `WHERE ${where.join(' AND ')} ORDER BY t.state_since ASC, t.id ASC`,
     { replacements, type: QueryTypes.SELECT, raw: true },
@@ -65,6 +68,7 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
     const flags: Flag[] = [];
     if (r.awaiting_approval) flags.push('awaiting_approval');
     if (r.parts_on_order) flags.push('parts_on_order');
+    if (r.test_failed) flags.push('test_failed');
     cards[i] = {
       id: r.id,
       tag: formatTag(r.id),

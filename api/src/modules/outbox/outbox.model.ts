@@ -22,6 +22,10 @@ export class Outbox extends Model<InferAttributes<Outbox>, InferCreationAttribut
   /** Not sent before this instant (e.g. a booking's day-before reminder); null: as soon as possible. */
   declare sendAfter: CreationOptional<Date | null>;
   declare bookingId: CreationOptional<number | null>;
+  /** One attached file (db/migrations/050-bench-records.ts), or null. */
+  declare attachmentName: CreationOptional<string | null>;
+  declare attachmentType: CreationOptional<string | null>;
+  declare attachmentContent: CreationOptional<Buffer | null>;
   declare status: CreationOptional<OutboxStatus>;
   declare attempts: CreationOptional<number>;
   declare nextAttemptAt: Date;
@@ -42,6 +46,9 @@ export function initOutboxModel(sequelize: Sequelize): void {
       ticketId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       sendAfter: { type: DataTypes.DATE(3), allowNull: true },
       bookingId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      attachmentName: { type: DataTypes.STRING(200), allowNull: true },
+      attachmentType: { type: DataTypes.STRING(100), allowNull: true },
+      attachmentContent: { type: DataTypes.BLOB('medium'), allowNull: true },
       status: { type: DataTypes.ENUM(...OUTBOX_STATUSES), allowNull: false, defaultValue: 'pending' },
       attempts: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
       nextAttemptAt: { type: DataTypes.DATE(3), allowNull: false },

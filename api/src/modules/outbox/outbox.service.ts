@@ -17,6 +17,14 @@ export interface MailToQueue extends MailContent {
   bookingId?: number | null;
   /** Hold the mail until this instant (the worker skips it before then). */
   sendAfter?: Date | null;
+  /** One file sent with the mail (e.g. a test report PDF), stored in the outbox row. */
+  attachment?: MailAttachment | null;
+}
+
+export interface MailAttachment {
+  name: string;
+  contentType: string;
+  content: Buffer;
 }
 
 /** Writes one pending outbox row in `transaction`, due at `now` (the caller's clock), and returns its id. */
@@ -30,6 +38,9 @@ export async function enqueueMail(transaction: Transaction, mail: MailToQueue, n
       ticketId: mail.ticketId ?? null,
       bookingId: mail.bookingId ?? null,
       sendAfter: mail.sendAfter ?? null,
+      attachmentName: mail.attachment?.name ?? null,
+      attachmentType: mail.attachment?.contentType ?? null,
+      attachmentContent: mail.attachment?.content ?? null,
       nextAttemptAt: mail.sendAfter ?? now,
       createdAt: now,
       lockedUntil: null,

@@ -79,7 +79,16 @@ function describeError(err: unknown): string {
   return text.replace(/[\r\n]+/g, ' ').slice(0, 500);
 }
 
-type ClaimedRow = { id: number | string; to_address: string; subject: string; text_body: string; attempts: number };
+type ClaimedRow = {
+  id: number | string;
+  to_address: string;
+  subject: string;
+  text_body: string;
+  attempts: number;
+  attachment_name: string | null;
+  attachment_type: string | null;
+  attachment_content: Buffer | null;
+};
 
 export function startOutboxWorker(deps: OutboxWorkerDeps, options: OutboxWorkerOptions = {}): OutboxWorker {
   const { config, sequelize, logger, clock } = deps;
@@ -128,7 +137,7 @@ export function startOutboxWorker(deps: OutboxWorkerDeps, options: OutboxWorkerO
         transaction,
       });
       return sequelize.query<ClaimedRow>(
-        'SELECT id, to_address, subject, text_body, attempts FROM outbox WHERE id IN (:ids) ORDER BY id',
+        'SELECT id, to_address, subject, text_body, attempts, attachment_name, attachment_type, attachment_content FROM outbox WHERE id IN (:ids) ORDER BY id',
         { replacements: { ids }, type: QueryTypes.SELECT, transaction },
       );
     });
@@ -142,6 +151,9 @@ export function startOutboxWorker(deps: OutboxWorkerDeps, options: OutboxWorkerO
         subject: row.subject,
         text: row.text_body,
         messageId: outboxMessageId(row.id),
+        attachments: row.attachment_content
+          ? [{ filename: row.attachment_name ?? 'attachment', contentType: row.attachment_type ?? 'application/octet-stream', content: Buffer.from(row.attachment_content) }]
+          : undefined,
       });
     } catch (err) {
       const attempts = row.attempts + 1;

@@ -18,6 +18,8 @@ import { formatTag, parseTag } from './tag';
 import { ticketMovedMail, ticketOpenedMail } from './ticket-mails';
 import { ticketSearchWhere } from './ticket-search';
 import { hasVerifiedFlash } from '../firmware/flash-attempts.service';
+import { testSheetFacts } from '../test-sheets/test-sheet-facts';
+import { hasReturnedItemsChecked } from '../hand-back/hand-back-facts';
 import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
 
 export type TicketsDeps = Pick<AppDeps, 'sequelize' | 'config' | 'clock'>;
@@ -50,12 +52,16 @@ export type RecordedFacts = Pick<
 >;
 
 export async function recordedFactsOf(sequelize: Sequelize, ticketId: number, transaction?: Transaction): Promise<RecordedFacts> {
-  const [verifiedFlash] = await Promise.all([hasVerifiedFlash(sequelize, ticketId, transaction)]);
+  const [verifiedFlash, sheets, handedBack] = await Promise.all([
+    hasVerifiedFlash(sequelize, ticketId, transaction),
+    testSheetFacts(ticketId, transaction),
+    hasReturnedItemsChecked(ticketId, transaction),
+  ]);
   return {
     hasVerifiedFlash: verifiedFlash,
-    hasPassedTestSheet: false,
-    hasFailedTestSheet: false,
-    returnedItemsChecked: false,
+    hasPassedTestSheet: sheets.hasPassedTestSheet,
+    hasFailedTestSheet: sheets.hasFailedTestSheet,
+    returnedItemsChecked: handedBack,
     balanceSettled: false,
   };
 }

@@ -32,6 +32,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/calculators', label: 'Bench calculators', icon: 'calculate', roles: [] },
   { path: '/admin/accounts', label: 'Accounts', icon: 'manage_accounts', roles: ['admin'] },
   { path: '/admin/benches', label: 'Benches and sessions', icon: 'table_restaurant', roles: ['admin'] },
+  { path: '/admin/test-limits', label: 'Test limits', icon: 'rule', roles: ['admin'] },
 ];
 
 /** The app's frame: a toolbar, and a side navigation once someone is signed in. */
