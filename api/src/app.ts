@@ -23,6 +23,10 @@ import { createFirmwareRouter } from './modules/firmware/firmware.router';
 import { createFlashAttemptsRouter } from './modules/firmware/flash-attempts.router';
 import { createBenchesRouter } from './modules/benches/benches.router';
 import { createBookingsRouter } from './modules/bookings/bookings.router';
+import { createDiagnosisRouter } from './modules/diagnosis/diagnosis.router';
+import { createNotesRouter } from './modules/notes/notes.router';
+import { createQuoteSettingsRouter, createQuotesRouter } from './modules/quotes/quotes.router';
+import { createOwnerLinksRouter } from './modules/owner-links/owner-links.router';
 
 export function createApp(init: AppDepsInit): express.Express {
   const deps = appDeps(init);
@@ -84,7 +88,12 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use('/api/auth', createAuthRouter(deps));
   app.use('/api/users', createUsersRouter(deps));
   app.use('/api/tickets/:tag/flash-attempts', createFlashAttemptsRouter(deps));
+  app.use('/api/tickets/:tag/notes', createNotesRouter(deps));
+  app.use('/api/tickets/:tag/quotes', createQuotesRouter(deps));
+  app.use('/api/tickets/:tag', createDiagnosisRouter(deps));
   app.use('/api/tickets', createTicketsRouter(deps));
+  app.use('/api/club/quote-settings', createQuoteSettingsRouter(deps));
+  app.use('/api/owner', createOwnerLinksRouter(deps));
   app.use('/api/board', createBoardRouter(deps));
   app.use('/api/calc', requireSignedIn, calcRouter);
   app.use('/api/firmware', createFirmwareRouter(deps));

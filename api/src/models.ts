@@ -6,6 +6,9 @@ import { initOutboxModel } from './modules/outbox/outbox.model';
 import { initClubSettingsModel } from './modules/club/club-settings.model';
 import { initBenchModels } from './modules/benches/bench.model';
 import { initBookingModels } from './modules/bookings/booking.model';
+import { Diagnosis, initDiagnosisModels, ReflashConsent } from './modules/diagnosis/diagnosis.model';
+import { initQuoteModels, Quote, QuoteLineRow } from './modules/quotes/quote.model';
+import { initOwnerLinkModel } from './modules/owner-links/owner-link.model';
 
 export function initModels(sequelize: Sequelize): void {
   initUserModels(sequelize);
@@ -14,6 +17,9 @@ export function initModels(sequelize: Sequelize): void {
   initClubSettingsModel(sequelize);
   initBenchModels(sequelize);
   initBookingModels(sequelize);
+  initDiagnosisModels(sequelize);
+  initQuoteModels(sequelize);
+  initOwnerLinkModel(sequelize);
 
   User.hasMany(UserRole, { as: 'roleRows', foreignKey: 'userId' });
   UserRole.belongsTo(User, { foreignKey: 'userId' });
@@ -24,4 +30,8 @@ export function initModels(sequelize: Sequelize): void {
   Ticket.hasMany(TicketEvent, { as: 'events', foreignKey: 'ticketId' });
   TicketEvent.belongsTo(Ticket, { foreignKey: 'ticketId' });
   TicketEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId' });
+  Diagnosis.belongsTo(User, { as: 'editor', foreignKey: 'updatedBy' });
+  ReflashConsent.belongsTo(User, { as: 'recorder', foreignKey: 'recordedBy' });
+  Quote.hasMany(QuoteLineRow, { as: 'lines', foreignKey: 'quoteId' });
+  Quote.belongsTo(User, { as: 'author', foreignKey: 'createdBy' });
 }

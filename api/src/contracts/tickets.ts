@@ -12,6 +12,11 @@ export const EVENT_KINDS = [
   'opened',
   'moved',
   'note',
+  'diagnosis_saved',
+  'reflash_consent',
+  'quote_written',
+  'quote_approved',
+  'quote_declined',
 ] as const;
 export type EventKind = (typeof EVENT_KINDS)[number];
 
@@ -36,6 +41,8 @@ export interface TicketEventDto {
   fromState: TicketState | null;
   toState: TicketState | null;
   note: string | null;
+  /** Whether the owner may read it (status page, mails); members only ever get these. */
+  ownerVisible: boolean;
 }
 
 /** One entry of `moves` in `GET /api/tickets/:tag`: one per state, in workflow order. */
