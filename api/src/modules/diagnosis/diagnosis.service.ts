@@ -31,7 +31,8 @@ function toRecord(ticket: Ticket, d: Diagnosis | null): DiagnosisRecord {
     findings: d?.findings ?? null,
     decision: d?.decision ?? null,
     returnReason: d?.returnReason ?? null,
-    version: d?.version ?? 0,
+    // 0 before the first save, then the row's lock version + 1 (the row starts at 0).
+    version: d ? d.version + 1 : 0,
     savedAt: d?.updatedAt ? new Date(d.updatedAt).toISOString() : null,
     savedBy: d?.editor?.displayName ?? null,
   };
@@ -79,7 +80,7 @@ export async function saveDiagnosis(deps: DiagnosisDeps, user: SessionUser, inpu
     await sequelize.transaction(async (transaction) => {
       const now = clock();
       const existing = await Diagnosis.findByPk(ticket.id, { transaction });
-      if ((existing?.version ?? 0) !== input.version) throw new ConflictError('stale_version', STALE);
+      if ((existing ? existing.version + 1 : 0) !== input.version) throw new ConflictError('stale_version', STALE);
       if (existing) {
         existing.set(fields);
         existing.changed('checks', true);
