@@ -277,7 +277,7 @@ test('declining sends the ticket to Return with the reason; a newer quote replac
   const detail = await tech.get(`/api/tickets/${tag}`).expect(200);
   assert.equal(detail.body.state, 'return');
   assert.equal(detail.body.awaitingApproval, false);
-  const moved = detail.body.events.find((e: { kind: string }) => e.kind === 'moved' && e.toState === 'return');
+  const moved = detail.body.events.find((e: { kind: string; toState: string | null }) => e.kind === 'moved' && e.toState === 'return');
   assert.ok(moved);
   assert.equal(moved.fromState, 'diagnosis');
   assert.match(moved.note, /Too dear for an old amplifier/);
