@@ -20,16 +20,18 @@ import {
   type DiagnosisDecision,
   type DiagnosisRecord,
 } from '@contracts/bench-records';
-import { DEFAULT_TOLERANCE_PCT, NOMINAL_SUPPLY_V, dcLeadDrop, isAwgGauge, isMm2Gauge, type DcLeadDrop, type LeadGauge } from '@domain/dc-lead';
+import { AWG_GAUGES, DEFAULT_TOLERANCE_PCT, MM2_GAUGES, NOMINAL_SUPPLY_V, dcLeadDrop, isAwgGauge, isMm2Gauge, type DcLeadDrop, type LeadGauge } from '@domain/dc-lead';
 import { startWith } from 'rxjs';
 import { readApiError } from '../../../core/http/api-error';
 import { Notifier } from '../../../core/notifier';
 import { Caution } from '../../../shared/caution/caution';
 import { applyServerErrors } from '../../../shared/form-errors';
-import { GAUGE_CHOICES } from '../../calculators/calculators-page/calculators-page';
 import { TicketDetail } from '../../tickets/ticket.models';
 import { BenchRecordsApi } from '../bench-records-api';
 import { measurementValidator, optionalNumber, recordFieldMessage } from '../record-forms';
+
+/** Gauge choices as one select, as on the calculators page: "awg:12" or "mm2:2.5". */
+const GAUGE_CHOICES = [...AWG_GAUGES.map((g) => ({ value: `awg:${g}`, label: `AWG ${g}` })), ...MM2_GAUGES.map((g) => ({ value: `mm2:${g}`, label: `${g} mm²` }))];
 
 /** Whether the lead, at the measured current, explains a "low voltage at the radio" fault. */
 export interface LeadVerdict {
