@@ -15,6 +15,8 @@ async function api(ctx: BrowserContext, method: 'GET' | 'POST', url: string, dat
 const pathOf = (url: string) => new URL(url).pathname;
 
 test('diagnosis and a quote above the threshold; the owner approves from the e-mailed link and follows the status page', async ({ browser }) => {
+  // Two roles, two pages and a mail round trip: longer than the default minute on a busy machine.
+  test.setTimeout(240_000);
   const techContext = await browser.newContext({ viewport: { width: 1400, height: 900 } });
   const tech = await techContext.newPage();
   await signIn(tech, DEMO.technician);
