@@ -88,12 +88,12 @@ export const routes: Routes = [
     // The owner's pages behind an e-mailed link: no account, the token is the key.
     path: 'owner/status/:tag/:token',
     title: 'Your ticket · Rigwright',
-    loadComponent: () => import('./features/bench-records/owner-status-page/owner-status-page').then((m) => m.OwnerStatusPage),
+    loadComponent: () => import('./features/owner-records/owner-status-page/owner-status-page').then((m) => m.OwnerStatusPage),
   },
   {
     path: 'owner/approve/:tag/:token',
     title: 'Approve a quote · Rigwright',
-    loadComponent: () => import('./features/bench-records/owner-approval-page/owner-approval-page').then((m) => m.OwnerApprovalPage),
+    loadComponent: () => import('./features/owner-records/owner-approval-page/owner-approval-page').then((m) => m.OwnerApprovalPage),
   },
   {
     path: '**',

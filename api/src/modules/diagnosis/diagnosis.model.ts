@@ -1,7 +1,7 @@
 // The diagnosis record of a ticket (table ticket_diagnoses, db/migrations/035) and the consent
 // records (reflash_consents). DECIMAL columns come back as strings; getters make them numbers.
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
-import type { CheckResult, ConsentMethod, DiagnosisCheck, DiagnosisDecision } from '../../contracts/bench-records';
+import type { CheckResult, ConsentMethod, DiagnosisCheck, DiagnosisDecision } from '../../contracts/owner-records';
 import type { User } from '../users/user.model';
 
 export class Diagnosis extends Model<InferAttributes<Diagnosis>, InferCreationAttributes<Diagnosis>> {

@@ -1,7 +1,7 @@
 // Input of the diagnosis and reflash-consent routes, parsed at the edge.
 import { z } from 'zod';
 import { SINGLE_LINE, SINGLE_LINE_MESSAGE } from '../../schemas';
-import { DIAGNOSIS_CHECKS, DIAGNOSIS_DECISIONS } from '../../contracts/bench-records';
+import { DIAGNOSIS_CHECKS, DIAGNOSIS_DECISIONS } from '../../contracts/owner-records';
 import { AWG_GAUGES, MM2_GAUGES } from '../../domain/dc-lead';
 
 /** A measurement in its unit: a finite number in a range that makes sense on a 13.8 V bench. */

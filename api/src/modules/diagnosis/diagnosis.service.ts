@@ -4,7 +4,7 @@
 import { OptimisticLockError, UniqueConstraintError } from 'sequelize';
 import type { AppDeps } from '../../deps';
 import { ConflictError, RuleError } from '../../errors';
-import { DIAGNOSIS_CHECKS, DIAGNOSIS_DECISION_LABELS, type CheckResult, type DiagnosisCheck, type DiagnosisRecord } from '../../contracts/bench-records';
+import { DIAGNOSIS_CHECKS, DIAGNOSIS_DECISION_LABELS, type CheckResult, type DiagnosisCheck, type DiagnosisRecord } from '../../contracts/owner-records';
 import type { SessionUser } from '../auth/session-user';
 import { TicketEvent, type Ticket } from '../tickets/ticket.model';
 import { formatTag } from '../tickets/tag';

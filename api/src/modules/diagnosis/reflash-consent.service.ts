@@ -4,7 +4,7 @@
 import { OptimisticLockError, type Transaction } from 'sequelize';
 import type { AppDeps } from '../../deps';
 import { ConflictError, RuleError } from '../../errors';
-import { CONSENT_METHOD_LABELS, type ConsentMethod, type ReflashConsentView } from '../../contracts/bench-records';
+import { CONSENT_METHOD_LABELS, type ConsentMethod, type ReflashConsentView } from '../../contracts/owner-records';
 import type { SessionUser } from '../auth/session-user';
 import { bumpBoardRevision } from '../board/board-revision';
 import { Ticket, TicketEvent } from '../tickets/ticket.model';

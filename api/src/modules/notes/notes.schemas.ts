@@ -1,6 +1,6 @@
 // Input of the notes routes.
 import { z } from 'zod';
-import { NOTE_AUDIENCES } from '../../contracts/bench-records';
+import { NOTE_AUDIENCES } from '../../contracts/owner-records';
 import { queryInt } from '../../schemas';
 
 export const noteSchema = z

@@ -5,7 +5,7 @@
 // transaction; an internal note never queues a mail.
 import type { AppDeps } from '../../deps';
 import type { Page } from '../../contracts/lists';
-import type { TicketNote } from '../../contracts/bench-records';
+import type { TicketNote } from '../../contracts/owner-records';
 import type { SessionUser } from '../auth/session-user';
 import { enqueueMail } from '../outbox/outbox.service';
 import { readClubName } from '../club/club-settings.service';

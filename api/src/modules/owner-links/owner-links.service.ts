@@ -6,7 +6,7 @@ import { OptimisticLockError } from 'sequelize';
 import type { AppDeps } from '../../deps';
 import { AppError, ConflictError, RuleError } from '../../errors';
 import { checkMove, STATE_LABELS, type TicketState } from '../../domain/workflow';
-import type { OwnerApprovalView, OwnerStatusView } from '../../contracts/bench-records';
+import type { OwnerApprovalView, OwnerStatusView } from '../../contracts/owner-records';
 import { bumpBoardRevision } from '../board/board-revision';
 import { readClubName } from '../club/club-settings.service';
 import { TicketEvent } from '../tickets/ticket.model';

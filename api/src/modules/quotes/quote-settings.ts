@@ -1,7 +1,7 @@
 // The club's currency and approval threshold: columns of the club_settings row (id 1,
 // db/migrations/035), read on each request so every API replica sees a change at once.
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import type { QuoteSettings } from '../../contracts/bench-records';
+import type { QuoteSettings } from '../../contracts/owner-records';
 
 /** The migration's defaults: pounds sterling, approval above £50.00. */
 export const DEFAULT_QUOTE_SETTINGS: QuoteSettings = { currency: 'GBP', approvalThresholdMinor: 5000 };

@@ -10,7 +10,7 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
-import type { QuoteStatus } from '../../contracts/bench-records';
+import type { QuoteStatus } from '../../contracts/owner-records';
 import type { User } from '../users/user.model';
 
 export class Quote extends Model<InferAttributes<Quote>, InferCreationAttributes<Quote>> {

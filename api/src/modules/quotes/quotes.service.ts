@@ -6,7 +6,7 @@ import { Op, OptimisticLockError, type Transaction } from 'sequelize';
 import type { AppDeps } from '../../deps';
 import { ConflictError, RuleError } from '../../errors';
 import { formatMoney, lineTotalMinor, needsOwnerApproval, quantityToHundredths, quoteTotalMinor } from '../../domain/quote';
-import type { Quote as QuoteDto, QuotesView } from '../../contracts/bench-records';
+import type { Quote as QuoteDto, QuotesView } from '../../contracts/owner-records';
 import type { SessionUser } from '../auth/session-user';
 import { enqueueMail } from '../outbox/outbox.service';
 import { bumpBoardRevision } from '../board/board-revision';

@@ -1,4 +1,4 @@
-import { DIAGNOSIS_CHECKS } from '@contracts/bench-records';
+import { DIAGNOSIS_CHECKS } from '@contracts/owner-records';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';

@@ -18,9 +18,9 @@ import { Caution } from '../../../shared/caution/caution';
 import { equipmentKindLabel, stateLabel } from '../../../shared/labels';
 import { StateChip } from '../../../shared/state-chip/state-chip';
 import { FlashAttempts } from '../../firmware/flash-attempts/flash-attempts';
-import { DiagnosisSection } from '../../bench-records/diagnosis-section/diagnosis-section';
-import { NotesSection } from '../../bench-records/notes-section/notes-section';
-import { QuoteSection } from '../../bench-records/quote-section/quote-section';
+import { DiagnosisSection } from '../../owner-records/diagnosis-section/diagnosis-section';
+import { NotesSection } from '../../owner-records/notes-section/notes-section';
+import { QuoteSection } from '../../owner-records/quote-section/quote-section';
 import { TicketApi } from '../ticket-api';
 import { TicketDetail, MoveOption } from '../ticket.models';
 

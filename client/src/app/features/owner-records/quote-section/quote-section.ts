@@ -7,14 +7,14 @@ import { MatCardModule } from '@angular/material/card';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { QUOTE_STATUS_LABELS } from '@contracts/bench-records';
+import { QUOTE_STATUS_LABELS } from '@contracts/owner-records';
 import { MAX_QUOTE_LINES, decimalToMinor, formatMoney, lineTotalMinor, needsOwnerApproval, quantityToHundredths } from '@domain/quote';
 import { startWith } from 'rxjs';
 import { SessionStore } from '../../../core/auth/session-store';
 import { readApiError } from '../../../core/http/api-error';
 import { Notifier } from '../../../core/notifier';
 import { TicketDetail } from '../../tickets/ticket.models';
-import { BenchRecordsApi } from '../bench-records-api';
+import { OwnerRecordsApi } from '../owner-records-api';
 import { optionalNumber, priceValidator, quantityValidator, recordFieldMessage } from '../record-forms';
 
 /** Quotes on a ticket: the latest first; technicians write one in Diagnosis (above the club's threshold, the owner approves). */
@@ -23,13 +23,13 @@ import { optionalNumber, priceValidator, quantityValidator, recordFieldMessage }
   imports: [ReactiveFormsModule, DatePipe, MatCardModule, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './quote-section.html',
-  styleUrl: '../bench-records.scss',
+  styleUrl: '../owner-records.scss',
 })
 export class QuoteSection {
   readonly ticket = input.required<TicketDetail>();
   readonly changed = output<void>();
 
-  private readonly api = inject(BenchRecordsApi);
+  private readonly api = inject(OwnerRecordsApi);
   private readonly notifier = inject(Notifier);
   private readonly fb = inject(NonNullableFormBuilder);
   protected readonly session = inject(SessionStore);

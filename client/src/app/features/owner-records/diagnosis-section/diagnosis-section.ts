@@ -19,7 +19,7 @@ import {
   type DiagnosisCheck,
   type DiagnosisDecision,
   type DiagnosisRecord,
-} from '@contracts/bench-records';
+} from '@contracts/owner-records';
 import { AWG_GAUGES, DEFAULT_TOLERANCE_PCT, MM2_GAUGES, NOMINAL_SUPPLY_V, dcLeadDrop, isAwgGauge, isMm2Gauge, type DcLeadDrop, type LeadGauge } from '@domain/dc-lead';
 import { startWith } from 'rxjs';
 import { readApiError } from '../../../core/http/api-error';
@@ -27,7 +27,7 @@ import { Notifier } from '../../../core/notifier';
 import { Caution } from '../../../shared/caution/caution';
 import { applyServerErrors } from '../../../shared/form-errors';
 import { TicketDetail } from '../../tickets/ticket.models';
-import { BenchRecordsApi } from '../bench-records-api';
+import { OwnerRecordsApi } from '../owner-records-api';
 import { measurementValidator, optionalNumber, recordFieldMessage } from '../record-forms';
 
 /** Gauge choices as one select, as on the calculators page: "awg:12" or "mm2:2.5". */
@@ -79,14 +79,14 @@ export function leadVerdict(v: { lengthM: string; gauge: string; sourceV: string
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './diagnosis-section.html',
-  styleUrl: '../bench-records.scss',
+  styleUrl: '../owner-records.scss',
 })
 export class DiagnosisSection {
   readonly ticket = input.required<TicketDetail>();
   /** Emitted after a save or a consent, so the page reloads the ticket (timeline, moves). */
   readonly changed = output<void>();
 
-  private readonly api = inject(BenchRecordsApi);
+  private readonly api = inject(OwnerRecordsApi);
   private readonly notifier = inject(Notifier);
   private readonly fb = inject(NonNullableFormBuilder);
 

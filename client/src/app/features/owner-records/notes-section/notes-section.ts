@@ -9,12 +9,12 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatPaginatorModule, type PageEvent } from '@angular/material/paginator';
 import { MatRadioModule } from '@angular/material/radio';
-import { NOTE_AUDIENCE_LABELS, type NoteAudience } from '@contracts/bench-records';
+import { NOTE_AUDIENCE_LABELS, type NoteAudience } from '@contracts/owner-records';
 import { SessionStore } from '../../../core/auth/session-store';
 import { readApiError } from '../../../core/http/api-error';
 import { Notifier } from '../../../core/notifier';
 import { TicketDetail } from '../../tickets/ticket.models';
-import { BenchRecordsApi } from '../bench-records-api';
+import { OwnerRecordsApi } from '../owner-records-api';
 import { recordFieldMessage } from '../record-forms';
 
 /** Notes on a ticket, each showing who will read it; the bench writes them for itself or for the owner. */
@@ -23,13 +23,13 @@ import { recordFieldMessage } from '../record-forms';
   imports: [ReactiveFormsModule, DatePipe, MatCardModule, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatPaginatorModule, MatRadioModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './notes-section.html',
-  styleUrl: '../bench-records.scss',
+  styleUrl: '../owner-records.scss',
 })
 export class NotesSection {
   readonly ticket = input.required<TicketDetail>();
   readonly changed = output<void>();
 
-  private readonly api = inject(BenchRecordsApi);
+  private readonly api = inject(OwnerRecordsApi);
   private readonly notifier = inject(Notifier);
   protected readonly session = inject(SessionStore);
   protected readonly audienceLabels = NOTE_AUDIENCE_LABELS;

@@ -8,11 +8,11 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { QUOTE_STATUS_LABELS } from '@contracts/bench-records';
+import { QUOTE_STATUS_LABELS } from '@contracts/owner-records';
 import { formatMoney } from '@domain/quote';
 import { readApiError } from '../../../core/http/api-error';
 import { Caution } from '../../../shared/caution/caution';
-import { BenchRecordsApi } from '../bench-records-api';
+import { OwnerRecordsApi } from '../owner-records-api';
 import { recordFieldMessage } from '../record-forms';
 
 /** The quote approval page behind the e-mailed approval link: the ticket, the quote, the cautions, Approve or Decline. */
@@ -21,12 +21,12 @@ import { recordFieldMessage } from '../record-forms';
   imports: [ReactiveFormsModule, DatePipe, Caution, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './owner-approval-page.html',
-  styleUrls: ['../bench-records.scss', '../owner-page.scss'],
+  styleUrls: ['../owner-records.scss', '../owner-page.scss'],
 })
 export class OwnerApprovalPage {
   readonly tag = input.required<string>();
   readonly token = input.required<string>();
-  private readonly api = inject(BenchRecordsApi);
+  private readonly api = inject(OwnerRecordsApi);
 
   protected readonly view = rxResource({ params: () => ({ tag: this.tag(), token: this.token() }), stream: ({ params }) => this.api.ownerApproval(params.tag, params.token) });
   protected readonly money = formatMoney;

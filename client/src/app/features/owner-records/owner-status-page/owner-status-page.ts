@@ -5,13 +5,13 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import type { OwnerTimelineEntry } from '@contracts/bench-records';
+import type { OwnerTimelineEntry } from '@contracts/owner-records';
 import { formatMoney } from '@domain/quote';
 import { readApiError } from '../../../core/http/api-error';
 import { Caution } from '../../../shared/caution/caution';
 import { stateLabel } from '../../../shared/labels';
 import { StateChip } from '../../../shared/state-chip/state-chip';
-import { BenchRecordsApi } from '../bench-records-api';
+import { OwnerRecordsApi } from '../owner-records-api';
 
 /** In words for the owner: one line per timeline entry. */
 export function ownerEntryText(e: OwnerTimelineEntry): string {
@@ -41,12 +41,12 @@ export function ownerEntryText(e: OwnerTimelineEntry): string {
   imports: [DatePipe, Caution, StateChip, MatButtonModule, MatCardModule, MatIconModule, MatProgressBarModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './owner-status-page.html',
-  styleUrls: ['../bench-records.scss', '../owner-page.scss'],
+  styleUrls: ['../owner-records.scss', '../owner-page.scss'],
 })
 export class OwnerStatusPage {
   readonly tag = input.required<string>();
   readonly token = input.required<string>();
-  private readonly api = inject(BenchRecordsApi);
+  private readonly api = inject(OwnerRecordsApi);
 
   protected readonly status = rxResource({ params: () => ({ tag: this.tag(), token: this.token() }), stream: ({ params }) => this.api.ownerStatus(params.tag, params.token) });
   protected readonly entryText = ownerEntryText;

@@ -1,5 +1,5 @@
 // Shapes of the diagnosis record, reflash consent, notes, quotes and the owner's links (issue 7),
-// shared with the client as `@contracts/bench-records`. Plain TypeScript, no imports but types.
+// shared with the client as `@contracts/owner-records`. Plain TypeScript, no imports but types.
 import type { TicketState } from '../domain/workflow';
 
 /** The first checks of a diagnosis, in the order they are done (the soft-reset sequence first). */

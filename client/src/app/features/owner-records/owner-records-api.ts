@@ -11,7 +11,7 @@ import type {
   QuotesView,
   ReflashConsentView,
   TicketNote,
-} from '@contracts/bench-records';
+} from '@contracts/owner-records';
 import { HANDLES_OWN_ERRORS } from '../../core/http/api-error';
 
 export type DiagnosisBody = Omit<DiagnosisRecord, 'tag' | 'editable' | 'savedAt' | 'savedBy'>;
@@ -26,7 +26,7 @@ const link = (kind: 'status' | 'approval', tag: string, token: string) => `/api/
 
 /** The diagnosis, consent, notes and quote routes, and the owner's public link routes. */
 @Injectable({ providedIn: 'root' })
-export class BenchRecordsApi {
+export class OwnerRecordsApi {
   private readonly http = inject(HttpClient);
 
   diagnosis(tag: string): Observable<DiagnosisRecord> {
