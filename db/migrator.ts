@@ -8,6 +8,7 @@ import * as m004 from './migrations/004-club-name';
 import * as m010 from './migrations/010-firmware';
 import * as m020 from './migrations/020-bench-slots';
 import * as m025 from './migrations/025-ticket-events-open';
+import * as m035 from './migrations/035-diagnosis-quotes-owner-links';
 import * as m050 from './migrations/050-bench-records';
 
 type Step = { up(qi: QueryInterface): Promise<void>; down(qi: QueryInterface): Promise<void> };
@@ -18,6 +19,7 @@ const MIGRATIONS: [string, Step][] = [
   ['010-firmware', m010],
   ['020-bench-slots', m020],
   ['025-ticket-events-open', m025],
+  ['035-diagnosis-quotes-owner-links', m035],
   ['050-bench-records', m050],
 ];
 

@@ -8,6 +8,8 @@ import { QueryTypes } from 'sequelize';
 import { anonymous, createUser, registeredRoutes, setupTestApp, signIn, tableSnapshot, type TestApp, type TestClient } from '../test/helpers';
 import type { Role } from './contracts/accounts';
 import { benchWithSession, insertBooking } from '../test/bench-fixtures';
+import { issueOwnerLink } from './modules/owner-links/owner-link-tokens';
+import { parseTag } from './modules/tickets/tag';
 
 type Actor = 'anonymous' | 'owner' | 'otherMember' | 'technician' | 'treasurer' | 'admin';
 const ACTORS: Actor[] = ['anonymous', 'owner', 'otherMember', 'technician', 'treasurer', 'admin'];
@@ -84,6 +86,21 @@ const ACCESS: Record<string, Actor[]> = {
   'POST /api/tickets/:tag/hand-back': BENCH,
   'GET /api/test-limits': SIGNED_IN,
   'PATCH /api/test-limits': ['admin'],
+  'GET /api/tickets/:tag/notes': ['owner', 'technician', 'treasurer', 'admin'],
+  'POST /api/tickets/:tag/notes': BENCH,
+  'GET /api/tickets/:tag/quotes': ['owner', 'technician', 'treasurer', 'admin'],
+  'POST /api/tickets/:tag/quotes': BENCH,
+  'GET /api/tickets/:tag/diagnosis': BENCH,
+  'PUT /api/tickets/:tag/diagnosis': BENCH,
+  'GET /api/tickets/:tag/reflash-consent': BENCH,
+  'POST /api/tickets/:tag/reflash-consent': BENCH,
+  'GET /api/club/quote-settings': SIGNED_IN,
+  'PATCH /api/club/quote-settings': ['admin'],
+  // The owner's links need no account: the random token in the path is the key (a wrong one: 404).
+  'GET /api/owner/status/:tag/:token': ACTORS,
+  'POST /api/owner/status/:tag/:token/consent': ACTORS,
+  'GET /api/owner/approval/:tag/:token': ACTORS,
+  'POST /api/owner/approval/:tag/:token': ACTORS,
 };
 
 /** Routes where someone else's object answers 404 (it is not theirs to know about), not 403. */
@@ -105,6 +122,7 @@ let firmwareId = 0;
 let bench = { benchId: 0, ruleId: 0, bookingId: 0 };
 let sheetId = 0;
 let sheetTag = '';
+const ownerTokens = { status: '', approve: '' };
 
 before(async () => {
   // Every request below signs in afresh; lift the per-address throttle for this sweep only.
@@ -179,6 +197,12 @@ before(async () => {
   const ownerId = (await t.sequelize.query<{ id: number }>("SELECT id FROM users WHERE email = 'owner@matrix.example'", { type: QueryTypes.SELECT }))[0]!.id;
   const booking = await insertBooking(t.sequelize, { benchId: fixture.bench.id, userId: ownerId, start: fixture.at('19:00') });
   bench = { benchId: fixture.bench.id, ruleId: fixture.rule.id, bookingId: booking.id };
+  // Owner links for the public routes (an approval link without a quote answers 410, past the access checks).
+  await t.sequelize.transaction(async (transaction) => {
+    const ticketId = parseTag(ticketTag)!;
+    ownerTokens.status = await issueOwnerLink(transaction, { purpose: 'status', ticketId }, new Date());
+    ownerTokens.approve = await issueOwnerLink(transaction, { purpose: 'approve', ticketId }, new Date());
+  });
 });
 
 after(() => t.close());
@@ -193,6 +217,8 @@ function urlFor(path: string): string {
   return path
     .replace(':tag', path.includes(':sheetId') ? sheetTag : ticketTag)
     .replace(':sheetId', String(sheetId))
+    .replace(':token', path.includes('/approval/') ? ownerTokens.approve : ownerTokens.status)
+    .replace(':tag', ticketTag)
     .replace(':id', String(id))
     .replace(':number', '1')
     .replace(':benchId', String(bench.benchId))
@@ -226,7 +252,9 @@ for (const [route, allowed] of Object.entries(ACCESS)) {
             ? await c.patch(url, {})
             : method === 'DELETE'
               ? await c.delete(url)
-              : await c.post(url, {});
+              : method === 'PUT'
+                ? await c.put(url, {})
+                : await c.post(url, {});
       const refused = res.status === 401 || res.status === 403 || (res.status === 404 && path.includes(':'));
       if (allowed.includes(actor)) {
         assert.ok(!refused, `${actor} was refused ${route} with ${res.status}: ${res.text}`);

@@ -26,6 +26,10 @@ import { createBookingsRouter } from './modules/bookings/bookings.router';
 import { createRepairRouter } from './modules/repair/repair.router';
 import { createTestLimitsRouter, createTestSheetsRouter } from './modules/test-sheets/test-sheets.router';
 import { createHandBackRouter } from './modules/hand-back/hand-back.router';
+import { createDiagnosisRouter } from './modules/diagnosis/diagnosis.router';
+import { createNotesRouter } from './modules/notes/notes.router';
+import { createQuoteSettingsRouter, createQuotesRouter } from './modules/quotes/quotes.router';
+import { createOwnerLinksRouter } from './modules/owner-links/owner-links.router';
 
 export function createApp(init: AppDepsInit): express.Express {
   const deps = appDeps(init);
@@ -91,7 +95,12 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use('/api/tickets/:tag/test-sheets', createTestSheetsRouter(deps));
   app.use('/api/tickets/:tag/hand-back', createHandBackRouter(deps));
   app.use('/api/test-limits', createTestLimitsRouter(deps));
+  app.use('/api/tickets/:tag/notes', createNotesRouter(deps));
+  app.use('/api/tickets/:tag/quotes', createQuotesRouter(deps));
+  app.use('/api/tickets/:tag', createDiagnosisRouter(deps));
   app.use('/api/tickets', createTicketsRouter(deps));
+  app.use('/api/club/quote-settings', createQuoteSettingsRouter(deps));
+  app.use('/api/owner', createOwnerLinksRouter(deps));
   app.use('/api/board', createBoardRouter(deps));
   app.use('/api/calc', requireSignedIn, calcRouter);
   app.use('/api/firmware', createFirmwareRouter(deps));

@@ -58,6 +58,8 @@ const schema = z.object({
   RW_FIRMWARE_MAX_BYTES: z.coerce.number().int().min(1024).max(1024 * 1024 * 1024).default(16 * 1024 * 1024),
   /** Largest serial log accepted with a flash attempt (bytes; 256 KiB by default). */
   RW_SERIAL_LOG_MAX_BYTES: z.coerce.number().int().min(1024).max(8 * 1024 * 1024).default(256 * 1024),
+  /** Requests to the owner's link pages (status, approval) one address may make in 15 minutes. */
+  RW_OWNER_LINK_MAX_PER_ADDRESS: z.coerce.number().int().min(1).max(100000).default(120),
   RW_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

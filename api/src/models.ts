@@ -9,6 +9,9 @@ import { initBookingModels } from './modules/bookings/booking.model';
 import { initRepairModels, RepairPart, RepairWork } from './modules/repair/repair.model';
 import { initTestSheetModels, TestSheetRow } from './modules/test-sheets/test-sheet.model';
 import { HandBack, initHandBackModel } from './modules/hand-back/hand-back.model';
+import { Diagnosis, initDiagnosisModels, ReflashConsent } from './modules/diagnosis/diagnosis.model';
+import { initQuoteModels, Quote, QuoteLineRow } from './modules/quotes/quote.model';
+import { initOwnerLinkModel } from './modules/owner-links/owner-link.model';
 
 export function initModels(sequelize: Sequelize): void {
   initUserModels(sequelize);
@@ -20,6 +23,9 @@ export function initModels(sequelize: Sequelize): void {
   initRepairModels(sequelize);
   initTestSheetModels(sequelize);
   initHandBackModel(sequelize);
+  initDiagnosisModels(sequelize);
+  initQuoteModels(sequelize);
+  initOwnerLinkModel(sequelize);
 
   User.hasMany(UserRole, { as: 'roleRows', foreignKey: 'userId' });
   UserRole.belongsTo(User, { foreignKey: 'userId' });
@@ -34,4 +40,8 @@ export function initModels(sequelize: Sequelize): void {
   RepairPart.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' });
   TestSheetRow.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' });
   HandBack.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' });
+  Diagnosis.belongsTo(User, { as: 'editor', foreignKey: 'updatedBy' });
+  ReflashConsent.belongsTo(User, { as: 'recorder', foreignKey: 'recordedBy' });
+  Quote.hasMany(QuoteLineRow, { as: 'lines', foreignKey: 'quoteId' });
+  Quote.belongsTo(User, { as: 'author', foreignKey: 'createdBy' });
 }

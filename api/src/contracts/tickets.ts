@@ -16,6 +16,11 @@ export const EVENT_KINDS = [
   'repair_part',
   'test_sheet',
   'hand_back',
+  'diagnosis_saved',
+  'reflash_consent',
+  'quote_written',
+  'quote_approved',
+  'quote_declined',
 ] as const;
 export type EventKind = (typeof EVENT_KINDS)[number];
 
@@ -40,6 +45,8 @@ export interface TicketEventDto {
   fromState: TicketState | null;
   toState: TicketState | null;
   note: string | null;
+  /** Whether the owner may read it (status page, mails); members only ever get these. */
+  ownerVisible: boolean;
 }
 
 /** One entry of `moves` in `GET /api/tickets/:tag`: one per state, in workflow order. */

@@ -96,6 +96,17 @@ export const routes: Routes = [
     loadChildren: () => import('./features/calculators/calculators.routes').then((m) => m.CALCULATOR_ROUTES),
   },
   {
+    // The owner's pages behind an e-mailed link: no account, the token is the key.
+    path: 'owner/status/:tag/:token',
+    title: 'Your ticket · Rigwright',
+    loadComponent: () => import('./features/owner-records/owner-status-page/owner-status-page').then((m) => m.OwnerStatusPage),
+  },
+  {
+    path: 'owner/approve/:tag/:token',
+    title: 'Approve a quote · Rigwright',
+    loadComponent: () => import('./features/owner-records/owner-approval-page/owner-approval-page').then((m) => m.OwnerApprovalPage),
+  },
+  {
     path: '**',
     title: 'Not found · Rigwright',
     loadComponent: () => import('./core/not-found-page/not-found-page').then((m) => m.NotFoundPage),

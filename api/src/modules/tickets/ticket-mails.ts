@@ -11,6 +11,14 @@ export interface TicketMailFacts {
   tag: string;
   /** Where the owner follows the ticket. */
   link: string;
+  /** The owner's status link (no account needed; modules/owner-links), when one was issued. */
+  statusLink?: string;
+}
+
+/** The lines that tell the owner where to follow the ticket. */
+function followLines(facts: TicketMailFacts): string[] {
+  if (!facts.statusLink) return [`Follow it here: ${facts.link}`];
+  return [`Follow it here, no account needed: ${facts.statusLink}`, `Members can also sign in: ${facts.link}`];
 }
 
 function signature(clubName: string): string {
@@ -29,7 +37,7 @@ export function ticketOpenedMail(facts: TicketMailFacts & { faultReported: strin
       `Fault as reported: ${facts.faultReported}`,
       '',
       `Quote ${tag} when you ask about it. You will get an e-mail each time it moves on.`,
-      `Follow it here: ${facts.link}`,
+      ...followLines(facts),
       '',
       signature(facts.clubName),
     ].join('\n'),
@@ -44,7 +52,7 @@ export function ticketMovedMail(facts: TicketMailFacts & { from: string; to: str
       `Hello ${facts.ownerName},`,
       '',
       `Your ${facts.makeModel} (ticket ${facts.tag}) has moved from ${facts.from} to ${facts.to}.`,
-      `Follow it here: ${facts.link}`,
+      ...followLines(facts),
       '',
       signature(facts.clubName),
     ].join('\n'),

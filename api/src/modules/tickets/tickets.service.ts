@@ -20,6 +20,7 @@ import { ticketSearchWhere } from './ticket-search';
 import { hasVerifiedFlash } from '../firmware/flash-attempts.service';
 import { testSheetFacts } from '../test-sheets/test-sheet-facts';
 import { hasReturnedItemsChecked } from '../hand-back/hand-back-facts';
+import { statusLinkFor } from '../owner-links/owner-link-tokens';
 import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
 
 export type TicketsDeps = Pick<AppDeps, 'sequelize' | 'config' | 'clock'>;
@@ -136,6 +137,7 @@ export async function openTicket(deps: TicketsDeps, user: SessionUser, input: In
         makeModel: ticket.makeModel,
         tag,
         link: ticketLink(deps.config, tag),
+        statusLink: await statusLinkFor(deps.config, transaction, ticket.id, tag, now),
         faultReported: ticket.faultReported,
       });
       await enqueueMail(transaction, { kind: 'ticket_opened', to: ticket.ownerEmail, ticketId: ticket.id, ...mail }, now);
@@ -186,7 +188,7 @@ export async function listTickets(deps: TicketsDeps, user: SessionUser, query: L
 }
 
 /** Loads a ticket the person may see, or answers 404 (another member's ticket is "not found", not "forbidden"). */
-async function findVisibleTicket(user: SessionUser, tag: string, options: Pick<FindOptions<Ticket>, 'include' | 'order'> = {}): Promise<Ticket> {
+export async function findVisibleTicket(user: SessionUser, tag: string, options: Pick<FindOptions<Ticket>, 'include' | 'order'> = {}): Promise<Ticket> {
   const id = parseTag(tag);
   const ticket = id ? await Ticket.findByPk(id, options) : null;
   if (!ticket || (!seesAllTickets(user) && ticket.ownerUserId !== user.id)) {
@@ -221,7 +223,9 @@ export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, inpu
     ],
   });
   const recorded = await recordedFactsOf(deps.sequelize, ticket.id);
-  const events = (ticket.events ?? []).map(
+  // Members (owners) read only what the owner may read; internal bench records stay on the bench.
+  const visible = seesAllTickets(user) ? (ticket.events ?? []) : (ticket.events ?? []).filter((e) => e.ownerVisible);
+  const events = visible.map(
     (e): TicketEventDto => ({
       id: Number(e.id),
       at: iso(e.createdAt),
@@ -230,6 +234,7 @@ export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, inpu
       fromState: e.fromState,
       toState: e.toState,
       note: e.note,
+      ownerVisible: e.ownerVisible,
     }),
   );
   return toDetail(ticket, ticket.technician?.displayName ?? null, events, moveOptions(user, ticket, recorded));
@@ -310,6 +315,7 @@ export async function moveTicket(deps: TicketsDeps, user: SessionUser, input: { 
         makeModel: current.makeModel,
         tag,
         link: ticketLink(deps.config, tag),
+        statusLink: await statusLinkFor(deps.config, transaction, current.id, tag, now),
         from: STATE_LABELS[from],
         to: STATE_LABELS[input.to],
       });

@@ -1,3 +1,4 @@
+import { DIAGNOSIS_CHECKS } from '@contracts/owner-records';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
@@ -34,8 +35,8 @@ function detail(extra: Partial<TicketDetail> = {}): TicketDetail {
     awaitingApproval: false,
     partsOnOrder: false,
     events: [
-      { id: 1, at: '2026-11-30T18:00:00Z', actorName: 'Perrin Sallow', kind: 'opened', fromState: null, toState: 'intake', note: null },
-      { id: 2, at: '2026-11-30T19:00:00Z', actorName: 'Tobin Marsh', kind: 'moved', fromState: 'intake', toState: 'diagnosis', note: 'Taking it.' },
+      { id: 1, at: '2026-11-30T18:00:00Z', actorName: 'Perrin Sallow', kind: 'opened', fromState: null, toState: 'intake', note: null, ownerVisible: true },
+      { id: 2, at: '2026-11-30T19:00:00Z', actorName: 'Tobin Marsh', kind: 'moved', fromState: 'intake', toState: 'diagnosis', note: 'Taking it.', ownerVisible: true },
     ],
     // The server lists every state; the page shows only the lanes the workflow allows from here.
     moves: STATES.map((to) =>
@@ -72,7 +73,25 @@ describe('TicketPage', () => {
     root = fixture.nativeElement;
     fixture.detectChanges();
     http.expectOne('/api/tickets/RW-0007').flush(detail());
+    await flushSections();
     await fixture.whenStable();
+  }
+
+  /** The bench-record sections on the page (diagnosis, quote, notes) load their own data; answer them empty. */
+  async function flushSections() {
+    for (let i = 0; i < 3; i++) {
+      fixture.detectChanges();
+      TestBed.tick();
+      await new Promise((resolve) => setTimeout(resolve, 0));
+    }
+    for (const r of http.match((req) => /\/(quotes|notes|diagnosis)$/.test(req.url))) {
+      if (r.request.url.endsWith('/quotes')) r.flush({ quotes: [], settings: { currency: 'GBP', approvalThresholdMinor: 5000 }, canWrite: false, reason: null });
+      else if (r.request.url.endsWith('/notes')) r.flush({ items: [], total: 0, page: 1, pageSize: 10 });
+      else {
+        const checks = Object.fromEntries(DIAGNOSIS_CHECKS.map((k) => [k, { done: false, result: null }]));
+        r.flush({ tag: 'RW-0007', editable: true, checks, supplyAtRadioV: null, idleCurrentA: null, transmitCurrentA: null, lead: null, findings: null, decision: null, returnReason: null, version: 0, savedAt: null, savedBy: null });
+      }
+    }
   }
 
   afterEach(() => http.verify());
@@ -113,7 +132,7 @@ describe('TicketPage', () => {
     const note = root.querySelector<HTMLTextAreaElement>('textarea[formcontrolname="note"]')!;
     note.value = 'No fault found after a full soft reset.';
     note.dispatchEvent(new Event('input'));
-    await fixture.whenStable();
+    await flushSections();
     const ret = Array.from(root.querySelectorAll<HTMLButtonElement>('.move-list button')).find((b) =>
       b.textContent?.includes('Return'),
     )!;
@@ -123,6 +142,7 @@ describe('TicketPage', () => {
     const req = http.expectOne('/api/tickets/RW-0007/moves');
     expect(req.request.body).toEqual({ to: 'return', version: 5, note: 'No fault found after a full soft reset.' });
     req.flush(detail({ state: 'return', version: 6, moves: [{ to: 'closed', allowed: false, reason: 'Fees are not settled.' }] }));
+    await flushSections();
     await fixture.whenStable();
     expect(root.querySelector('rw-state-chip')?.textContent).toContain('Return');
     expect(moveButtons()).toEqual([{ text: 'Move to Closed', disabled: true }]);
@@ -139,6 +159,7 @@ describe('TicketPage', () => {
       .flush({ error: { code: 'stale_version', message: 'Someone else moved this ticket.' } }, { status: 409, statusText: 'Conflict' });
     fixture.detectChanges();
     http.expectOne('/api/tickets/RW-0007').flush(detail({ version: 6 }));
+    await flushSections();
     await fixture.whenStable();
     expect(root.querySelector('[role="alert"]')?.textContent).toContain('Someone else moved this ticket.');
   });

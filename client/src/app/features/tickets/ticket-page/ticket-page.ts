@@ -19,6 +19,9 @@ import { equipmentKindLabel, stateLabel } from '../../../shared/labels';
 import { StateChip } from '../../../shared/state-chip/state-chip';
 import { FlashAttempts } from '../../firmware/flash-attempts/flash-attempts';
 import { BenchRecords } from '../../bench-records/bench-records/bench-records';
+import { DiagnosisSection } from '../../owner-records/diagnosis-section/diagnosis-section';
+import { NotesSection } from '../../owner-records/notes-section/notes-section';
+import { QuoteSection } from '../../owner-records/quote-section/quote-section';
 import { TicketApi } from '../ticket-api';
 import { TicketDetail, MoveOption } from '../ticket.models';
 
@@ -34,6 +37,9 @@ import { TicketDetail, MoveOption } from '../ticket.models';
     Caution,
     FlashAttempts,
     BenchRecords,
+    DiagnosisSection,
+    NotesSection,
+    QuoteSection,
     MatCardModule,
     MatButtonModule,
     MatIconModule,
