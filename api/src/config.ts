@@ -58,6 +58,11 @@ const schema = z.object({
   RW_FIRMWARE_MAX_BYTES: z.coerce.number().int().min(1024).max(1024 * 1024 * 1024).default(16 * 1024 * 1024),
   /** Largest serial log accepted with a flash attempt (bytes; 256 KiB by default). */
   RW_SERIAL_LOG_MAX_BYTES: z.coerce.number().int().min(1024).max(8 * 1024 * 1024).default(256 * 1024),
+  /**
+   * Seconds after a move during which its mover (or an admin) may undo it; the owner's mail about
+   * the move waits this long too, so an undone move sends nothing (modules/moves).
+   */
+  RW_UNDO_GRACE_SECONDS: z.coerce.number().int().min(1).max(300).default(10),
   RW_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

@@ -33,6 +33,7 @@ type CardRecord = {
   technician_name: string | null;
   awaiting_approval: number | boolean;
   parts_on_order: number | boolean;
+  previous_state: TicketState | null;
 };
 
 /** Builds the board from the database (no cache). Cards come oldest-in-lane first. */
@@ -51,7 +52,10 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
   }
   const rows = await sequelize.query<CardRecord>(
     'SELECT t.id, t.equipment_kind, t.make_model, t.owner_name, t.owner_call_sign, t.state, t.state_since, ' +
-      't.version, t.technician_id, u.display_name AS technician_name, t.awaiting_approval, t.parts_on_order ' +
+      't.version, t.technician_id, u.display_name AS technician_name, t.awaiting_approval, t.parts_on_order, ' +
+      // The lane a card came from (its latest move that stands), so the card can offer "Send back".
+      "(SELECT e.from_state FROM ticket_events e WHERE e.ticket_id = t.id AND e.kind = 'moved' AND e.undone_by_event_id IS NULL " +
+      'ORDER BY e.id DESC LIMIT 1) AS previous_state ' +
       'FROM tickets t LEFT JOIN users u ON u.id = t.technician_id ' +
       `WHERE ${where.join(' AND ')} ORDER BY t.state_since ASC, t.id ASC`,
     { replacements, type: QueryTypes.SELECT, raw: true },
@@ -65,6 +69,8 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
     const flags: Flag[] = [];
     if (r.awaiting_approval) flags.push('awaiting_approval');
     if (r.parts_on_order) flags.push('parts_on_order');
+    // Further flags come here, in this order, each from its feature: 'test_failed' (test sheets),
+    // 'balance_due' (fees). The card shows them as labelled chips in the order they are pushed.
     cards[i] = {
       id: r.id,
       tag: formatTag(r.id),
@@ -77,6 +83,7 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
       version: r.version,
       technicianId: r.technician_id,
       technicianName: r.technician_name,
+      previousState: r.previous_state,
       flags,
     };
     const lane = lanes.get(r.state);

@@ -22,6 +22,10 @@ export class Outbox extends Model<InferAttributes<Outbox>, InferCreationAttribut
   /** Not sent before this instant (e.g. a booking's day-before reminder); null: as soon as possible. */
   declare sendAfter: CreationOptional<Date | null>;
   declare bookingId: CreationOptional<number | null>;
+  /** Pending mails with one key replace each other (e.g. one owner mail for several quick moves). */
+  declare coalesceKey: CreationOptional<string | null>;
+  /** What the recipient was last told before this pending mail (a change back to it sends nothing). */
+  declare coalesceBase: CreationOptional<string | null>;
   declare status: CreationOptional<OutboxStatus>;
   declare attempts: CreationOptional<number>;
   declare nextAttemptAt: Date;
@@ -42,6 +46,8 @@ export function initOutboxModel(sequelize: Sequelize): void {
       ticketId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       sendAfter: { type: DataTypes.DATE(3), allowNull: true },
       bookingId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      coalesceKey: { type: DataTypes.STRING(80), allowNull: true },
+      coalesceBase: { type: DataTypes.STRING(40), allowNull: true },
       status: { type: DataTypes.ENUM(...OUTBOX_STATUSES), allowNull: false, defaultValue: 'pending' },
       attempts: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
       nextAttemptAt: { type: DataTypes.DATE(3), allowNull: false },

@@ -17,6 +17,10 @@ export interface MailToQueue extends MailContent {
   bookingId?: number | null;
   /** Hold the mail until this instant (the worker skips it before then). */
   sendAfter?: Date | null;
+  /** Pending mails with the same key replace each other (see modules/moves/move-mail.ts). */
+  coalesceKey?: string | null;
+  /** What the recipient was last told before this mail, for the next mail with the same key. */
+  coalesceBase?: string | null;
 }
 
 /** Writes one pending outbox row in `transaction`, due at `now` (the caller's clock), and returns its id. */
@@ -30,6 +34,8 @@ export async function enqueueMail(transaction: Transaction, mail: MailToQueue, n
       ticketId: mail.ticketId ?? null,
       bookingId: mail.bookingId ?? null,
       sendAfter: mail.sendAfter ?? null,
+      coalesceKey: mail.coalesceKey ?? null,
+      coalesceBase: mail.coalesceBase ?? null,
       nextAttemptAt: mail.sendAfter ?? now,
       createdAt: now,
       lockedUntil: null,
