@@ -60,7 +60,7 @@ describe('BoardCard', () => {
   it('the menu button is named for the ticket and offers exactly the moves the workflow allows, then opening the ticket', async () => {
     const loader = render(card());
     const trigger = await loader.getHarness(MatButtonHarness.with({ selector: '.card-menu' }));
-    expect(await (await trigger.host()).getAttribute('aria-label')).toBe('Move RW-0007');
+    expect(await (await trigger.host()).getAttribute('aria-label')).toBe('Actions for RW-0007');
     const menu = await loader.getHarness(MatMenuHarness);
     await menu.open();
     const items = await menu.getItems();
