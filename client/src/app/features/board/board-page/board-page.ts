@@ -37,7 +37,7 @@ import { TicketApi } from '../../tickets/ticket-api';
 import type { TicketDetail } from '../../tickets/ticket.models';
 import { BoardApi } from '../board-api';
 import { BoardLane, CardAction, LaneView, MoveRequest } from '../board-lane/board-lane';
-import { cardMoveRequirement } from '../board-rules';
+import { cardMoveRequirement, sendBackOf } from '../board-rules';
 import type { Flag } from '@contracts/board';
 import { Card, LiveSignal, LoadedBoard } from '../board.models';
 
@@ -357,13 +357,14 @@ export class BoardPage {
 
   private async askForNote(card: Card, to: TicketState, prompt: string): Promise<string | undefined> {
     const draft = this.drafts.get(card.tag);
+    const back = sendBackOf(card) === to;
     const ref = this.dialog.open<NoteDialog, NoteDialogData, string>(NoteDialog, {
       // Focus goes back to the card itself (it may have moved lanes meanwhile), not to the menu.
       restoreFocus: false,
       data: {
-        title: `Move ${card.tag} to ${STATE_LABELS[to]}`,
+        title: back ? `Send ${card.tag} back to ${STATE_LABELS[to]}` : `Move ${card.tag} to ${STATE_LABELS[to]}`,
         prompt,
-        confirmLabel: `Move to ${STATE_LABELS[to]}`,
+        confirmLabel: back ? `Send back to ${STATE_LABELS[to]}` : `Move to ${STATE_LABELS[to]}`,
         minLength: NOTE_MIN_LENGTH,
         ...(draft ? { initialNote: draft, notice: 'Your note from the last try is kept: check it and move again.' } : {}),
       },
