@@ -10,6 +10,7 @@ import * as m020 from './migrations/020-bench-slots';
 import * as m025 from './migrations/025-ticket-events-open';
 import * as m035 from './migrations/035-diagnosis-quotes-owner-links';
 import * as m050 from './migrations/050-bench-records';
+import * as m055 from './migrations/055-move-undo-and-mail-grace';
 
 type Step = { up(qi: QueryInterface): Promise<void>; down(qi: QueryInterface): Promise<void> };
 const MIGRATIONS: [string, Step][] = [
@@ -21,6 +22,7 @@ const MIGRATIONS: [string, Step][] = [
   ['025-ticket-events-open', m025],
   ['035-diagnosis-quotes-owner-links', m035],
   ['050-bench-records', m050],
+  ['055-move-undo-and-mail-grace', m055],
 ];
 
 export function createMigrator(sequelize: Sequelize, log = false) {

@@ -33,6 +33,10 @@ const ACCESS: Record<string, Actor[]> = {
   'GET /api/tickets': SIGNED_IN,
   'GET /api/tickets/:tag': ['owner', 'technician', 'treasurer', 'admin'],
   'POST /api/tickets/:tag/moves': ['technician', 'admin'],
+  'POST /api/tickets/:tag/moves/:eventId/undo': ['technician', 'admin'], // and only the mover or an admin: moves.router.test.ts
+  'POST /api/tickets/:tag/parts-on-order': ['technician', 'admin'],
+  'POST /api/tickets/:tag/technician': ['technician', 'admin'],
+  'GET /api/technicians': ['technician', 'admin'],
   'GET /api/board': ['technician', 'admin'],
   'GET /api/board/events': ['technician', 'admin'],
   'GET /api/calc/xmodem': SIGNED_IN,
@@ -221,6 +225,7 @@ function urlFor(path: string): string {
     .replace(':tag', ticketTag)
     .replace(':id', String(id))
     .replace(':number', '1')
+    .replace(':eventId', '1')
     .replace(':benchId', String(bench.benchId))
     .replace(':ruleId', String(bench.ruleId))
     .replace(':bookingId', String(bench.bookingId));

@@ -30,6 +30,7 @@ import { createDiagnosisRouter } from './modules/diagnosis/diagnosis.router';
 import { createNotesRouter } from './modules/notes/notes.router';
 import { createQuoteSettingsRouter, createQuotesRouter } from './modules/quotes/quotes.router';
 import { createOwnerLinksRouter } from './modules/owner-links/owner-links.router';
+import { createTechniciansRouter, createTicketMovesRouter } from './modules/moves/moves.router';
 
 export function createApp(init: AppDepsInit): express.Express {
   const deps = appDeps(init);
@@ -98,6 +99,8 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use('/api/tickets/:tag/notes', createNotesRouter(deps));
   app.use('/api/tickets/:tag/quotes', createQuotesRouter(deps));
   app.use('/api/tickets/:tag', createDiagnosisRouter(deps));
+  app.use('/api/tickets/:tag', createTicketMovesRouter(deps));
+  app.use('/api/technicians', createTechniciansRouter());
   app.use('/api/tickets', createTicketsRouter(deps));
   app.use('/api/club/quote-settings', createQuoteSettingsRouter(deps));
   app.use('/api/owner', createOwnerLinksRouter(deps));

@@ -60,6 +60,11 @@ const schema = z.object({
   RW_SERIAL_LOG_MAX_BYTES: z.coerce.number().int().min(1024).max(8 * 1024 * 1024).default(256 * 1024),
   /** Requests to the owner's link pages (status, approval) one address may make in 15 minutes. */
   RW_OWNER_LINK_MAX_PER_ADDRESS: z.coerce.number().int().min(1).max(100000).default(120),
+  /**
+   * Seconds after a move during which its mover (or an admin) may undo it; the owner's mail about
+   * the move waits this long too, so an undone move sends nothing (modules/moves).
+   */
+  RW_UNDO_GRACE_SECONDS: z.coerce.number().int().min(1).max(300).default(10),
   RW_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

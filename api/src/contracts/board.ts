@@ -21,6 +21,8 @@ export interface Card {
   /** The technician who took the ticket (user id), for filtering by person; null until taken. */
   technicianId: number | null;
   technicianName: string | null;
+  /** The lane the ticket came from (its latest move that stands): the card offers "Send back" there. */
+  previousState: TicketState | null;
   flags: Flag[];
 }
 

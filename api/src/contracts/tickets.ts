@@ -21,6 +21,11 @@ export const EVENT_KINDS = [
   'quote_written',
   'quote_approved',
   'quote_declined',
+  'move_undone',
+  'parts_on_order_set',
+  'parts_on_order_cleared',
+  'technician_assigned',
+  'technician_unassigned',
 ] as const;
 export type EventKind = (typeof EVENT_KINDS)[number];
 
@@ -77,4 +82,19 @@ export interface TicketDetail extends TicketRow {
   partsOnOrder: boolean;
   events: TicketEventDto[];
   moves: MoveOption[];
+  /** The technician's user id (null until taken), for the assignment menu. */
+  technicianId: number | null;
+  /** The lane it came from (its latest move that stands); a send-back goes there, with a note. */
+  previousState: TicketState | null;
+  /** The undo this person may still make (their own latest move, or any as admin), within the grace period. */
+  undo: UndoOffer | null;
+}
+
+/** `undo` of `TicketDetail`: `POST /api/tickets/:tag/moves/:eventId/undo` puts the ticket back in `fromState` until `until`. */
+export interface UndoOffer {
+  eventId: number;
+  fromState: TicketState;
+  toState: TicketState;
+  /** ISO instant; after it the undo answers 410. */
+  until: string;
 }

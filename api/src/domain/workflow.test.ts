@@ -2,7 +2,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
-import { ALLOWED_MOVES, BOARD_LANES, checkMove, hasNote, isState, moveRequirement, NOTE_MIN_LENGTH, STATES, type MoveFacts, type TicketState } from './workflow';
+import { ALLOWED_MOVES, BOARD_LANES, checkMove, hasNote, isState, moveRequirement, NOTE_MIN_LENGTH, sendBackTarget, STATES, type MoveFacts, type TicketState } from './workflow';
 
 /** Facts under which every guard is satisfied, so only the move itself is being judged. */
 const easy = (state: TicketState): MoveFacts => ({
@@ -14,6 +14,7 @@ const easy = (state: TicketState): MoveFacts => ({
   returnedItemsChecked: true,
   balanceSettled: true,
   awaitingApproval: false,
+  previousState: null,
 });
 
 const reasonOf = (facts: MoveFacts, to: TicketState, note?: string) => {
@@ -106,7 +107,7 @@ describe('guards', () => {
   it('moves with no guard (intake → diagnosis, repair → bench test) pass with every fact false', () => {
     const none = (s: TicketState): MoveFacts => ({
       state: s, reflashConsent: false, hasVerifiedFlash: false, hasPassedTestSheet: false,
-      hasFailedTestSheet: false, returnedItemsChecked: false, balanceSettled: false, awaitingApproval: false,
+      hasFailedTestSheet: false, returnedItemsChecked: false, balanceSettled: false, awaitingApproval: false, previousState: null,
     });
     assert.deepEqual(checkMove(none('intake'), 'diagnosis'), { allowed: true });
     assert.deepEqual(checkMove(none('repair'), 'bench_test'), { allowed: true });
@@ -117,7 +118,7 @@ describe('guards', () => {
 describe('which moves need a note (moveRequirement: one place for the board, the ticket page and the server)', () => {
   const none = (s: TicketState): MoveFacts => ({
     state: s, reflashConsent: false, hasVerifiedFlash: false, hasPassedTestSheet: false,
-    hasFailedTestSheet: false, returnedItemsChecked: false, balanceSettled: false, awaitingApproval: false,
+    hasFailedTestSheet: false, returnedItemsChecked: false, balanceSettled: false, awaitingApproval: false, previousState: null,
   });
   it('diagnosis → return always needs a note, saying why it goes back unrepaired', () => {
     const need = moveRequirement(easy('diagnosis'), 'return');
@@ -162,28 +163,89 @@ describe('which moves need a note (moveRequirement: one place for the board, the
   });
 });
 
-describe('properties', () => {
-  it('no fact ever allows a move outside the table, and every refusal has a reason', () => {
-    const state = fc.constantFrom(...STATES);
-    const facts = fc.record({
-      state,
-      reflashConsent: fc.boolean(),
-      hasVerifiedFlash: fc.boolean(),
-      hasPassedTestSheet: fc.boolean(),
-      hasFailedTestSheet: fc.boolean(),
-      returnedItemsChecked: fc.boolean(),
-      balanceSettled: fc.boolean(),
-      awaitingApproval: fc.boolean(),
+describe('sending a ticket back to the lane it came from (issue 7; our own design, no published source)', () => {
+  const cameFrom = (state: TicketState, previousState: TicketState | null): MoveFacts => ({ ...easy(state), previousState });
+  it('is allowed only to the previous lane, and always asks for a note saying why', () => {
+    const need = moveRequirement(cameFrom('repair', 'diagnosis'), 'diagnosis');
+    assert.deepEqual(need, { allowed: true, noteRequired: true, reason: 'Say why it goes back to Diagnosis in the note.' });
+    assert.deepEqual(checkMove(cameFrom('repair', 'diagnosis'), 'diagnosis'), {
+      allowed: false, noteRequired: true, reason: 'Say why it goes back to Diagnosis in the note.',
     });
+    assert.deepEqual(checkMove(cameFrom('repair', 'diagnosis'), 'diagnosis', 'Supply ripple, not the PA: diagnose again'), { allowed: true });
+    assert.deepEqual(checkMove(cameFrom('diagnosis', 'intake'), 'intake', 'Serial number missing'), { allowed: true });
+    assert.deepEqual(checkMove(cameFrom('bench_test', 'reflash'), 'reflash', 'Wrong image for the display head'), { allowed: true });
+    // Not to any other earlier lane.
+    assert.match(reasonOf(cameFrom('repair', 'diagnosis'), 'intake', 'a long enough note'), /cannot go from Repair to Intake/);
+    assert.match(reasonOf(cameFrom('bench_test', 'reflash'), 'diagnosis', 'a long enough note'), /cannot go from Bench test to Diagnosis/);
+  });
+  it('names the way back in the refusal of any other lane', () => {
+    assert.equal(
+      reasonOf(cameFrom('repair', 'diagnosis'), 'intake'),
+      'A ticket cannot go from Repair to Intake. From Repair it can go to: Bench test (or back to Diagnosis, with a note).',
+    );
+  });
+  it('never takes a ticket out of Closed, with or without a note', () => {
+    for (const previous of STATES) {
+      assert.equal(sendBackTarget({ state: 'closed', previousState: previous }), null);
+      assert.match(reasonOf(cameFrom('closed', previous), previous, 'Owner came back: it still fails'), previous === 'closed' ? /already in/ : /Closed tickets stay closed/);
+    }
+  });
+  it('is not a send-back when the table already allows the move: the table\'s guard applies', () => {
+    // Bench test → Repair is in the table: a failed sheet or a note, as before.
+    assert.equal(sendBackTarget(cameFrom('bench_test', 'repair')), null);
+    assert.deepEqual(moveRequirement(cameFrom('bench_test', 'repair'), 'repair'), { allowed: true, noteRequired: false });
+    assert.equal(sendBackTarget(cameFrom('intake', null)), null, 'no move yet: nowhere to go back to');
+    assert.equal(sendBackTarget(cameFrom('repair', 'diagnosis')), 'diagnosis');
+  });
+  it('is not held by a quote awaiting approval (it takes the work back, not on)', () => {
+    const held = { ...cameFrom('repair', 'diagnosis'), awaitingApproval: true };
+    assert.deepEqual(checkMove(held, 'diagnosis', 'Quote needs redoing'), { allowed: true });
+    assert.match(reasonOf(held, 'bench_test'), /not approved the quote/);
+  });
+});
+
+describe('properties', () => {
+  const state = fc.constantFrom(...STATES);
+  const facts = fc.record({
+    state,
+    reflashConsent: fc.boolean(),
+    hasVerifiedFlash: fc.boolean(),
+    hasPassedTestSheet: fc.boolean(),
+    hasFailedTestSheet: fc.boolean(),
+    returnedItemsChecked: fc.boolean(),
+    balanceSettled: fc.boolean(),
+    awaitingApproval: fc.boolean(),
+    previousState: fc.option(state, { nil: null }),
+  });
+  it('no fact ever allows a move outside the table other than back to the previous lane, and every refusal has a reason', () => {
     fc.assert(
       fc.property(facts, state, fc.option(fc.string({ maxLength: 12 }), { nil: undefined }), (f, to, note) => {
         const r = checkMove(f, to, note);
-        if (r.allowed) assert.ok(ALLOWED_MOVES[f.state].includes(to));
-        else assert.ok(r.reason.length > 10);
+        if (r.allowed) {
+          const inTable = ALLOWED_MOVES[f.state].includes(to);
+          // Outside the table only a send-back: to the previous lane, never out of Closed, with a note.
+          assert.ok(inTable || (to === f.previousState && f.state !== 'closed' && hasNote(note)), `${f.state} → ${to}`);
+        } else assert.ok(r.reason.length > 10);
         // checkMove is moveRequirement plus the note: allowed exactly when the requirement allows
         // it and, where it asks for a note, the note is there.
         const need = moveRequirement(f, to);
         assert.equal(r.allowed, need.allowed && (!need.noteRequired || hasNote(note)));
+      }),
+      { numRuns: 2000 },
+    );
+  });
+  it('nothing leaves Closed, and a send-back always needs a note', () => {
+    fc.assert(
+      fc.property(facts, state, fc.option(fc.string({ maxLength: 40 }), { nil: undefined }), (f, to, note) => {
+        if (f.state === 'closed') assert.equal(checkMove(f, to, note).allowed, false);
+        if (!ALLOWED_MOVES[f.state].includes(to) && to !== f.state) {
+          const need = moveRequirement(f, to);
+          if (need.allowed) {
+            assert.equal(to, f.previousState);
+            assert.equal(need.noteRequired, true);
+            assert.equal(sendBackTarget(f), to);
+          }
+        }
       }),
       { numRuns: 2000 },
     );

@@ -48,6 +48,11 @@ export interface MoveFacts {
   balanceSettled: boolean;
   /** A quote above the club's threshold waits for the owner. */
   awaitingApproval: boolean;
+  /**
+   * The lane the ticket came from: the from-state of its latest move that was not undone (null
+   * before its first move). A technician may send the ticket back there, with a note.
+   */
+  previousState: TicketState | null;
 }
 
 /** Shortest note a move accepts where the workflow asks for one (after trimming). */
@@ -76,15 +81,31 @@ const refuse = (reason: string): MoveRequirement => ({ allowed: false, reason })
 const FREE: MoveRequirement = { allowed: true, noteRequired: false };
 const needsNote = (reason: string): MoveRequirement => ({ allowed: true, noteRequired: true, reason });
 
+/**
+ * The lane a ticket may be sent back to, or null: the lane it came from (`previousState`), when
+ * that is not already a move of the table (then the table's guard applies), never out of Closed
+ * and never into it. A send-back always needs a note saying why (our own design, issue 7).
+ */
+export function sendBackTarget(facts: Pick<MoveFacts, 'state' | 'previousState'>): TicketState | null {
+  const { state: from, previousState: to } = facts;
+  if (to === null || from === 'closed' || to === 'closed' || to === from) return null;
+  if (ALLOWED_MOVES[from].includes(to)) return null;
+  return to;
+}
+
 /** Decides what moving a ticket from its state to `to` needs (see MoveRequirement). */
 export function moveRequirement(facts: MoveFacts, to: TicketState): MoveRequirement {
   const from = facts.state;
   if (from === to) return refuse(`The ticket is already in ${STATE_LABELS[to]}.`);
   if (!ALLOWED_MOVES[from].includes(to)) {
+    const back = sendBackTarget(facts);
+    // Sending back is not held by a quote awaiting approval: it takes the work a step back, not on.
+    if (back === to) return needsNote(`Say why it goes back to ${STATE_LABELS[to]} in the note.`);
     const options = ALLOWED_MOVES[from].map((s) => STATE_LABELS[s]).join(', ');
+    const backText = back ? ` (or back to ${STATE_LABELS[back]}, with a note)` : '';
     return refuse(
       `A ticket cannot go from ${STATE_LABELS[from]} to ${STATE_LABELS[to]}.` +
-        (options ? ` From ${STATE_LABELS[from]} it can go to: ${options}.` : ' Closed tickets stay closed.'),
+        (options ? ` From ${STATE_LABELS[from]} it can go to: ${options}${backText}.` : ' Closed tickets stay closed.'),
     );
   }
   if (facts.awaitingApproval && to !== 'return') return refuse('The owner has not approved the quote yet.');

@@ -76,10 +76,10 @@ describe('GET /api/board', () => {
     const board = (await tech.get('/api/board').expect(200)).body;
     assert.deepEqual(board.cards.map((x: { tag: string }) => x.tag).sort(), [a.tag, b.tag].sort());
     const card = board.cards.find((x: { tag: string }) => x.tag === b.tag);
-    assert.deepEqual(Object.keys(card).sort(), ['equipmentKind', 'flags', 'id', 'makeModel', 'ownerCallSign', 'ownerName', 'state', 'stateSince', 'tag', 'technicianId', 'technicianName', 'version']);
+    assert.deepEqual(Object.keys(card).sort(), ['equipmentKind', 'flags', 'id', 'makeModel', 'ownerCallSign', 'ownerName', 'previousState', 'state', 'stateSince', 'tag', 'technicianId', 'technicianName', 'version']);
     assert.deepEqual(
       { ...card, stateSince: undefined },
-      { id: b.id, tag: b.tag, equipmentKind: 'power_supply', makeModel: 'Marram PS-30 supply', ownerName: 'Perrin Sallow', ownerCallSign: 'Q3PSW', state: 'diagnosis', stateSince: undefined, version: 1, technicianId: techId, technicianName: 'Tobin Marsh', flags: [] },
+      { id: b.id, tag: b.tag, equipmentKind: 'power_supply', makeModel: 'Marram PS-30 supply', ownerName: 'Perrin Sallow', ownerCallSign: 'Q3PSW', state: 'diagnosis', stateSince: undefined, version: 1, technicianId: techId, technicianName: 'Tobin Marsh', previousState: 'intake', flags: [] },
     );
     assert.ok(Date.parse(card.stateSince) >= Date.parse(b.createdAt));
     assert.deepEqual(board.lanes.map((l: { state: string }) => l.state), [...BOARD_LANES]);

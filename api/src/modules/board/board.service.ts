@@ -34,6 +34,7 @@ type CardRecord = {
   awaiting_approval: number | boolean;
   parts_on_order: number | boolean;
   test_failed: number | boolean | null;
+  previous_state: TicketState | null;
 };
 
 /** Builds the board from the database (no cache). Cards come oldest-in-lane first. */
@@ -54,7 +55,10 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
     'SELECT t.id, t.equipment_kind, t.make_model, t.owner_name, t.owner_call_sign, t.state, t.state_since, ' +
       't.version, t.technician_id, u.display_name AS technician_name, t.awaiting_approval, t.parts_on_order, ' +
       // The latest test sheet failed (null: no sheet); the board flag "Test failed" follows it.
-      '(SELECT NOT s.passed FROM test_sheets s WHERE s.ticket_id = t.id ORDER BY s.number DESC LIMIT 1) AS test_failed ' +
+      '(SELECT NOT s.passed FROM test_sheets s WHERE s.ticket_id = t.id ORDER BY s.number DESC LIMIT 1) AS test_failed, ' +
+      // The lane a card came from (its latest move that stands), so the card can offer "Send back".
+      "(SELECT e.from_state FROM ticket_events e WHERE e.ticket_id = t.id AND e.kind = 'moved' AND e.undone_by_event_id IS NULL " +
+      'ORDER BY e.id DESC LIMIT 1) AS previous_state ' +
       'FROM tickets t LEFT JOIN users u ON u.id = t.technician_id ' +
       `WHERE ${where.join(' AND ')} ORDER BY t.state_since ASC, t.id ASC`,
     { replacements, type: QueryTypes.SELECT, raw: true },
@@ -69,6 +73,8 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
     if (r.awaiting_approval) flags.push('awaiting_approval');
     if (r.parts_on_order) flags.push('parts_on_order');
     if (r.test_failed) flags.push('test_failed');
+    // Further flags come here, each from its feature ('balance_due' from fees). The card shows
+    // them as labelled chips in the order they are pushed.
     cards[i] = {
       id: r.id,
       tag: formatTag(r.id),
@@ -81,6 +87,7 @@ export async function loadBoard(sequelize: Sequelize, filters: BoardFilters, wai
       version: r.version,
       technicianId: r.technician_id,
       technicianName: r.technician_name,
+      previousState: r.previous_state,
       flags,
     };
     const lane = lanes.get(r.state);

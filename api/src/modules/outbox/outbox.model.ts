@@ -26,6 +26,10 @@ export class Outbox extends Model<InferAttributes<Outbox>, InferCreationAttribut
   declare attachmentName: CreationOptional<string | null>;
   declare attachmentType: CreationOptional<string | null>;
   declare attachmentContent: CreationOptional<Buffer | null>;
+  /** Pending mails with one key replace each other (e.g. one owner mail for several quick moves). */
+  declare coalesceKey: CreationOptional<string | null>;
+  /** What the recipient was last told before this pending mail (a change back to it sends nothing). */
+  declare coalesceBase: CreationOptional<string | null>;
   declare status: CreationOptional<OutboxStatus>;
   declare attempts: CreationOptional<number>;
   declare nextAttemptAt: Date;
@@ -49,6 +53,8 @@ export function initOutboxModel(sequelize: Sequelize): void {
       attachmentName: { type: DataTypes.STRING(200), allowNull: true },
       attachmentType: { type: DataTypes.STRING(100), allowNull: true },
       attachmentContent: { type: DataTypes.BLOB('medium'), allowNull: true },
+      coalesceKey: { type: DataTypes.STRING(80), allowNull: true },
+      coalesceBase: { type: DataTypes.STRING(40), allowNull: true },
       status: { type: DataTypes.ENUM(...OUTBOX_STATUSES), allowNull: false, defaultValue: 'pending' },
       attempts: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
       nextAttemptAt: { type: DataTypes.DATE(3), allowNull: false },

@@ -25,6 +25,10 @@ export interface MailAttachment {
   name: string;
   contentType: string;
   content: Buffer;
+  /** Pending mails with the same key replace each other (see modules/moves/move-mail.ts). */
+  coalesceKey?: string | null;
+  /** What the recipient was last told before this mail, for the next mail with the same key. */
+  coalesceBase?: string | null;
 }
 
 /** Writes one pending outbox row in `transaction`, due at `now` (the caller's clock), and returns its id. */
@@ -41,6 +45,8 @@ export async function enqueueMail(transaction: Transaction, mail: MailToQueue, n
       attachmentName: mail.attachment?.name ?? null,
       attachmentType: mail.attachment?.contentType ?? null,
       attachmentContent: mail.attachment?.content ?? null,
+      coalesceKey: mail.coalesceKey ?? null,
+      coalesceBase: mail.coalesceBase ?? null,
       nextAttemptAt: mail.sendAfter ?? now,
       createdAt: now,
       lockedUntil: null,

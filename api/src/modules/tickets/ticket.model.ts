@@ -55,6 +55,12 @@ export class TicketEvent extends Model<InferAttributes<TicketEvent>, InferCreati
   declare note: string | null;
   /** Whether the owner may read this event (status page, mails); internal bench records are not. */
   declare ownerVisible: CreationOptional<boolean>;
+  /** On a 'moved' event: the 'move_undone' event that put the ticket back (null while it stands). */
+  declare undoneByEventId: CreationOptional<number | null>;
+  /** On a 'moved' event: when the ticket had entered the lane it left (an undo restores it). */
+  declare priorStateSince: CreationOptional<Date | null>;
+  /** On a 'moved' event: the move made the mover the ticket's technician (an undo hands it back). */
+  declare tookTicket: CreationOptional<boolean>;
   declare createdAt: CreationOptional<Date>;
 
   /** Loaded with `include: [{ association: 'actor' }]`. */
@@ -127,6 +133,9 @@ export function initTicketModels(sequelize: Sequelize): void {
       toState: { type: DataTypes.ENUM(...STATES), allowNull: true },
       note: { type: DataTypes.TEXT, allowNull: true },
       ownerVisible: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      undoneByEventId: { type: DataTypes.BIGINT.UNSIGNED, allowNull: true },
+      priorStateSince: { type: DataTypes.DATE(3), allowNull: true },
+      tookTicket: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       createdAt: { type: DataTypes.DATE(3) },
     },
     { sequelize, tableName: 'ticket_events', modelName: 'TicketEvent', underscored: true, updatedAt: false },

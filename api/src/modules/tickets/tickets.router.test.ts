@@ -259,7 +259,11 @@ describe('POST /api/tickets/:tag/moves', () => {
     );
     assert.ok(Date.parse(moved[0].at) > 0);
     const byTo = Object.fromEntries(res.body.moves.map((m: { to: string; allowed: boolean }) => [m.to, m.allowed]));
-    assert.deepEqual(byTo, { intake: false, diagnosis: false, reflash: true, repair: true, return: true, closed: false, bench_test: false });
+    assert.deepEqual(byTo, { intake: true, diagnosis: false, reflash: true, repair: true, return: true, closed: false, bench_test: false });
+    // Back to Intake, where it came from, is a send-back: allowed with a note saying why.
+    const back = res.body.moves.find((m: { to: string }) => m.to === 'intake');
+    assert.deepEqual(back, { to: 'intake', allowed: true, noteRequired: true, reason: 'Say why it goes back to Intake in the note.' });
+    assert.equal(res.body.previousState, 'intake');
     // diagnosis → return is allowed with a note saying why it goes back unrepaired.
     const toReturn = res.body.moves.find((m: { to: string }) => m.to === 'return');
     assert.equal(toReturn.noteRequired, true);
@@ -401,7 +405,8 @@ describe('time and the club in what tickets store and send', () => {
     assert.equal(moved.stateSince, '2026-03-14T23:00:00.000Z');
     assert.deepEqual(moved.events.map((e: { at: string }) => e.at), ['2026-03-14T18:00:00.000Z', '2026-03-14T23:00:00.000Z']);
     const mails = await rows<{ next_attempt_at: Date }>('SELECT next_attempt_at FROM outbox ORDER BY id');
-    assert.deepEqual(mails.map((m) => m.next_attempt_at.toISOString()), ['2026-03-14T18:00:00.000Z', '2026-03-14T23:00:00.000Z']);
+    // The move's mail waits out the undo grace period (RW_UNDO_GRACE_SECONDS, 10 s by default).
+    assert.deepEqual(mails.map((m) => m.next_attempt_at.toISOString()), ['2026-03-14T18:00:00.000Z', '2026-03-14T23:00:10.000Z']);
     const listed = (await bench.get('/api/tickets').expect(200)).body.items[0];
     assert.deepEqual([listed.createdAt, listed.stateSince], ['2026-03-14T18:00:00.000Z', '2026-03-14T23:00:00.000Z']);
   });

@@ -21,6 +21,8 @@ import { hasVerifiedFlash } from '../firmware/flash-attempts.service';
 import { testSheetFacts } from '../test-sheets/test-sheet-facts';
 import { hasReturnedItemsChecked } from '../hand-back/hand-back-facts';
 import { statusLinkFor } from '../owner-links/owner-link-tokens';
+import { latestLaneEvent, previousStateOf, undoOfferOf } from '../moves/move-history';
+import { queueMoveMail } from '../moves/move-mail';
 import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
 
 export type TicketsDeps = Pick<AppDeps, 'sequelize' | 'config' | 'clock'>;
@@ -49,16 +51,18 @@ function ticketLink(config: TicketsDeps['config'], tag: string): string {
  */
 export type RecordedFacts = Pick<
   MoveFacts,
-  'hasVerifiedFlash' | 'hasPassedTestSheet' | 'hasFailedTestSheet' | 'returnedItemsChecked' | 'balanceSettled'
+  'hasVerifiedFlash' | 'hasPassedTestSheet' | 'hasFailedTestSheet' | 'returnedItemsChecked' | 'balanceSettled' | 'previousState'
 >;
 
 export async function recordedFactsOf(sequelize: Sequelize, ticketId: number, transaction?: Transaction): Promise<RecordedFacts> {
-  const [verifiedFlash, sheets, handedBack] = await Promise.all([
+  const [verifiedFlash, sheets, handedBack, previousState] = await Promise.all([
     hasVerifiedFlash(sequelize, ticketId, transaction),
     testSheetFacts(ticketId, transaction),
     hasReturnedItemsChecked(ticketId, transaction),
+    previousStateOf(ticketId, transaction),
   ]);
   return {
+    previousState,
     hasVerifiedFlash: verifiedFlash,
     hasPassedTestSheet: sheets.hasPassedTestSheet,
     hasFailedTestSheet: sheets.hasFailedTestSheet,
@@ -222,7 +226,8 @@ export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, inpu
       ['events', 'id', 'ASC'],
     ],
   });
-  const recorded = await recordedFactsOf(deps.sequelize, ticket.id);
+  const [recorded, latest] = await Promise.all([recordedFactsOf(deps.sequelize, ticket.id), latestLaneEvent(ticket.id)]);
+  const undo = undoOfferOf(user, ticket.state, latest, deps.clock(), undoGraceMs(deps.config));
   // Members (owners) read only what the owner may read; internal bench records stay on the bench.
   const visible = seesAllTickets(user) ? (ticket.events ?? []) : (ticket.events ?? []).filter((e) => e.ownerVisible);
   const events = visible.map(
@@ -237,10 +242,15 @@ export async function getTicketDetail(deps: TicketsDeps, user: SessionUser, inpu
       ownerVisible: e.ownerVisible,
     }),
   );
-  return toDetail(ticket, ticket.technician?.displayName ?? null, events, moveOptions(user, ticket, recorded));
+  return {
+    ...toDetail(ticket, ticket.technician?.displayName ?? null, events, moveOptions(user, ticket, recorded)),
+    technicianId: ticket.technicianId,
+    previousState: recorded.previousState,
+    undo,
+  };
 }
 
-function toDetail(ticket: Ticket, technicianName: string | null, events: TicketEventDto[], moves: MoveOption[]): TicketDetail {
+function toDetail(ticket: Ticket, technicianName: string | null, events: TicketEventDto[], moves: MoveOption[]): Omit<TicketDetail, 'technicianId' | 'previousState' | 'undo'> {
   return {
     id: ticket.id,
     tag: formatTag(ticket.id),
@@ -269,6 +279,37 @@ function toDetail(ticket: Ticket, technicianName: string | null, events: TicketE
   };
 }
 
+/** How long a move can be undone, and its owner mail waits (RW_UNDO_GRACE_SECONDS). */
+export function undoGraceMs(config: TicketsDeps['config']): number {
+  return config.RW_UNDO_GRACE_SECONDS * 1000;
+}
+
+/** What queueMoveMail needs to tell the owner that `ticket` (already in its new lane) left `from`. */
+export function moveMailInput(deps: TicketsDeps, ticket: Ticket, from: TicketState, now: Date, transaction: Transaction) {
+  return {
+    ticketId: ticket.id,
+    to: ticket.ownerEmail,
+    notify: ticket.notifyByEmail,
+    from,
+    current: ticket.state,
+    now,
+    graceMs: undoGraceMs(deps.config),
+    compose: async (told: TicketState, current: TicketState) => {
+      const tag = formatTag(ticket.id);
+      return ticketMovedMail({
+        clubName: await readClubName(transaction),
+        ownerName: ticket.ownerName,
+        makeModel: ticket.makeModel,
+        tag,
+        link: ticketLink(deps.config, tag),
+        statusLink: await statusLinkFor(deps.config, transaction, ticket.id, tag, now),
+        from: STATE_LABELS[told],
+        to: STATE_LABELS[current],
+      });
+    },
+  };
+}
+
 /**
  * Moves a ticket to another lane. Checked here, not only in the router: the role, that `to` is a
  * state, the version the mover saw (409 when stale) and the workflow guard (422 with the reason).
@@ -289,11 +330,13 @@ export async function moveTicket(deps: TicketsDeps, user: SessionUser, input: { 
     if (!check.allowed) throw new RuleError('move_not_allowed', check.reason);
 
     const from: TicketState = current.state;
+    const priorStateSince = current.stateSince;
     const now = clock();
     current.state = input.to;
     current.stateSince = now;
     // The technician who takes a ticket out of intake becomes its technician.
-    if (current.technicianId === null && from === 'intake') current.technicianId = user.id;
+    const tookTicket = current.technicianId === null && from === 'intake';
+    if (tookTicket) current.technicianId = user.id;
     try {
       // The model has `version: true`: save() updates WHERE id AND version = the version read
       // above (and sets version + 1). Of two movers who saw one version, the second matches no
@@ -304,23 +347,22 @@ export async function moveTicket(deps: TicketsDeps, user: SessionUser, input: { 
       throw err;
     }
     await TicketEvent.create(
-      { ticketId: current.id, actorId: user.id, kind: 'moved', fromState: from, toState: input.to, note: input.note ?? null, ownerVisible: true, createdAt: now },
+      {
+        ticketId: current.id,
+        actorId: user.id,
+        kind: 'moved',
+        fromState: from,
+        toState: input.to,
+        note: input.note ?? null,
+        ownerVisible: true,
+        priorStateSince,
+        tookTicket,
+        createdAt: now,
+      },
       { transaction },
     );
-    if (current.notifyByEmail) {
-      const tag = formatTag(current.id);
-      const mail = ticketMovedMail({
-        clubName: await readClubName(transaction),
-        ownerName: current.ownerName,
-        makeModel: current.makeModel,
-        tag,
-        link: ticketLink(deps.config, tag),
-        statusLink: await statusLinkFor(deps.config, transaction, current.id, tag, now),
-        from: STATE_LABELS[from],
-        to: STATE_LABELS[input.to],
-      });
-      await enqueueMail(transaction, { kind: 'ticket_moved', to: current.ownerEmail, ticketId: current.id, ...mail }, now);
-    }
+    // The owner's mail waits out the undo grace period, replacing a pending one (modules/moves).
+    await queueMoveMail(transaction, moveMailInput(deps, current, from, now, transaction));
     await bumpBoardRevision(sequelize, transaction);
   });
   return getTicketDetail(deps, user, { tag: formatTag(ticket.id) });

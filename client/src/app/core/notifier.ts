@@ -21,8 +21,22 @@ export class Notifier {
     this.show(message, { duration: 10000, politeness: 'assertive', panelClass: 'rw-snack-error' });
   }
 
-  private show(message: string, config: MatSnackBarConfig): void {
+  /**
+   * A message with one action (e.g. Undo) for `durationMs`. Resolves true when the person chose
+   * the action, false when the message went away (timed out, dismissed, replaced by another).
+   */
+  async offer(message: string, action: string, durationMs: number): Promise<boolean> {
+    const snackBar = await this.load();
+    const ref = snackBar.open(message, action, { duration: durationMs, politeness: 'polite' });
+    return new Promise<boolean>((resolve) => ref.afterDismissed().subscribe((d) => resolve(d.dismissedByAction)));
+  }
+
+  private load(): Promise<MatSnackBar> {
     this.snackBar ??= import('@angular/material/snack-bar').then((m) => this.injector.get(m.MatSnackBar));
-    void this.snackBar.then((snackBar) => snackBar.open(message, 'Dismiss', config));
+    return this.snackBar;
+  }
+
+  private show(message: string, config: MatSnackBarConfig): void {
+    void this.load().then((snackBar) => snackBar.open(message, 'Dismiss', config));
   }
 }

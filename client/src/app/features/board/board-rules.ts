@@ -1,4 +1,4 @@
-import { ALLOWED_MOVES, MoveRequirement, TicketState, moveRequirement } from '@domain/workflow';
+import { ALLOWED_MOVES, MoveRequirement, TicketState, moveRequirement, sendBackTarget } from '@domain/workflow';
 import { Card } from './board.models';
 
 /**
@@ -12,6 +12,7 @@ export function cardMoveRequirement(card: Card, to: TicketState): MoveRequiremen
     {
       state: card.state,
       awaitingApproval: card.flags.includes('awaiting_approval'),
+      previousState: card.previousState ?? null,
       hasFailedTestSheet: card.flags.includes('test_failed'),
       // Unknown to the board: assume yes and let the server decide.
       reflashConsent: true,
@@ -26,4 +27,9 @@ export function cardMoveRequirement(card: Card, to: TicketState): MoveRequiremen
 
 export function movesFrom(state: TicketState): readonly TicketState[] {
   return ALLOWED_MOVES[state] ?? [];
+}
+
+/** The lane the card can be sent back to (where it came from, with a note), or null. */
+export function sendBackOf(card: Card): TicketState | null {
+  return sendBackTarget({ state: card.state, previousState: card.previousState ?? null });
 }

@@ -24,6 +24,7 @@ function card(extra: Partial<Card> = {}): Card {
     version: 2,
     technicianId: 4,
     technicianName: 'Tobin Marsh',
+    previousState: null,
     flags: [],
     ...extra,
   };
@@ -60,16 +61,20 @@ describe('BoardCard', () => {
   it('the menu button is named for the ticket and offers exactly the moves the workflow allows, then opening the ticket', async () => {
     const loader = render(card());
     const trigger = await loader.getHarness(MatButtonHarness.with({ selector: '.card-menu' }));
-    expect(await (await trigger.host()).getAttribute('aria-label')).toBe('Move RW-0007');
+    expect(await (await trigger.host()).getAttribute('aria-label')).toBe('Actions for RW-0007');
     const menu = await loader.getHarness(MatMenuHarness);
     await menu.open();
-    const items = await menu.getItems();
-    expect(await Promise.all(items.map((i) => i.getText()))).toEqual([
+    const items = await Promise.all((await menu.getItems()).map((i) => i.getText()));
+    expect(items.filter((text) => /^(Move to|Open ticket)/.test(text))).toEqual([
       'Move to Reflash',
       'Move to Repair',
       'Move to Return',
       'Open ticket RW-0007',
     ]);
+    // Then the bench's own items: the parts flag and who works on it (no Send back: it came from nowhere).
+    expect(items.some((text) => text.endsWith('Mark parts on order'))).toBe(true);
+    expect(items.some((text) => text.endsWith('Unassign Tobin Marsh'))).toBe(true);
+    expect(items.some((text) => text.includes('Send back'))).toBe(false);
     await menu.clickItem({ text: 'Move to Repair' });
     expect(moves).toEqual(['repair']);
   });
@@ -78,7 +83,8 @@ describe('BoardCard', () => {
     const loader = render(card({ state: 'return' }));
     const menu = await loader.getHarness(MatMenuHarness);
     await menu.open();
-    expect(await Promise.all((await menu.getItems()).map((i) => i.getText()))).toEqual(['Move to Closed', 'Open ticket RW-0007']);
+    const items = await Promise.all((await menu.getItems()).map((i) => i.getText()));
+    expect(items.filter((text) => /^(Move to|Open ticket)/.test(text))).toEqual(['Move to Closed', 'Open ticket RW-0007']);
   });
 
   it('flags are labelled chips, and waiting past the limit is said in words as well as by the edge', () => {

@@ -22,6 +22,7 @@ function card(tag: string, extra: Partial<Card> = {}): Card {
     version: 0,
     technicianId: null,
     technicianName: null,
+    previousState: null,
     flags: [],
     ...extra,
   };

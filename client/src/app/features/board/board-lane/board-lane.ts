@@ -4,6 +4,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { TicketState } from '@domain/workflow';
 import { AgePipe } from '../../../shared/age';
 import { BoardCard } from '../board-card/board-card';
+import type { TechnicianOption } from '../../moves/moves-api';
 import { movesFrom } from '../board-rules';
 import { Card } from '../board.models';
 
@@ -22,6 +23,9 @@ export interface MoveRequest {
   card: Card;
   to: TicketState;
 }
+
+/** From a card's menu: set or clear "Parts on order", or give the ticket to a technician (null: nobody). */
+export type CardAction = { card: Card; kind: 'parts'; on: boolean } | { card: Card; kind: 'assign'; technicianId: number | null };
 
 /**
  * One lane of the Bench board: header with name, count and oldest age; a drop list of cards.
@@ -45,8 +49,11 @@ export class BoardLane {
   readonly pending = input<ReadonlySet<string>>(new Set());
   /** The card being dragged anywhere on the board, if any. */
   readonly dragging = input<Card | null>(null);
+  readonly technicians = input<readonly TechnicianOption[]>([]);
+  readonly meId = input<number | null>(null);
 
   readonly moveRequested = output<MoveRequest>();
+  readonly actionRequested = output<CardAction>();
   readonly dropped = output<CdkDragDrop<TicketState, TicketState, Card>>();
   readonly dragStarted = output<Card>();
   readonly dragEnded = output<Card>();

@@ -11,7 +11,9 @@ import { MatSelectHarness } from '@angular/material/select/testing';
 import { provideRouter } from '@angular/router';
 import { BOARD_LANES, TicketState } from '@domain/workflow';
 import { BehaviorSubject, map, of } from 'rxjs';
+import { SessionStore } from '../../../core/auth/session-store';
 import { Notifier } from '../../../core/notifier';
+import type { TicketDetail } from '../../tickets/ticket.models';
 import { EVENT_SOURCE_FACTORY } from '../board-api';
 import { Board, Card } from '../board.models';
 import { BoardPage } from './board-page';
@@ -32,6 +34,7 @@ function card(tag: string, state: TicketState, extra: Partial<Card> = {}): Card 
     version: 3,
     technicianId: null,
     technicianName: null,
+    previousState: null,
     flags: [],
     ...extra,
   };
@@ -48,6 +51,34 @@ function boardBody(cards?: Card[]): Board {
       card('RW-0004', 'diagnosis', { technicianId: 11, technicianName: 'Ines Marrow' }),
       card('RW-0005', 'bench_test', { flags: ['test_failed'], technicianId: 12, technicianName: 'Tobin Reed' }),
     ],
+  };
+}
+
+const TECHNICIANS = [
+  { id: 11, displayName: 'Ines Marrow', callSign: 'Q7IM' },
+  { id: 12, displayName: 'Tobin Reed', callSign: null },
+];
+
+/** What the server answers for a ticket (only the fields the board reads matter here). */
+function detailOf(c: Card, extra: Partial<TicketDetail> = {}): TicketDetail {
+  return {
+    ...c,
+    createdAt: iso(10),
+    serialNumber: null,
+    units: [],
+    faultReported: 'No transmit.',
+    accessories: [],
+    firmwareVersions: null,
+    reflashConsent: true,
+    notifyByEmail: true,
+    ownerEmail: 'orla@fenmail.example',
+    ownerPhone: null,
+    awaitingApproval: c.flags.includes('awaiting_approval'),
+    partsOnOrder: c.flags.includes('parts_on_order'),
+    events: [],
+    moves: [],
+    undo: null,
+    ...extra,
   };
 }
 
@@ -88,14 +119,14 @@ class FakeEventSource {
 describe('BoardPage', () => {
   let fixture: ComponentFixture<BoardPage>;
   let http: HttpTestingController;
-  let notifier: { info: ReturnType<typeof vi.fn>; error: ReturnType<typeof vi.fn> };
+  let notifier: { info: ReturnType<typeof vi.fn>; error: ReturnType<typeof vi.fn>; offer: ReturnType<typeof vi.fn> };
   let dialogOpen: ReturnType<typeof vi.fn>;
   let sources: FakeEventSource[];
   let phone: BehaviorSubject<boolean>;
   let root: HTMLElement;
 
   async function setup(opts: { phone?: boolean } = {}) {
-    notifier = { info: vi.fn(), error: vi.fn() };
+    notifier = { info: vi.fn(), error: vi.fn(), offer: vi.fn().mockResolvedValue(false) };
     dialogOpen = vi.fn();
     sources = [];
     phone = new BehaviorSubject(opts.phone ?? false);
@@ -118,10 +149,12 @@ describe('BoardPage', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
+    TestBed.inject(SessionStore).set({ id: 12, email: 'tobin@kestrelfen.example', displayName: 'Tobin Reed', callSign: null, roles: ['technician'] });
     fixture = TestBed.createComponent(BoardPage);
     root = fixture.nativeElement;
     fixture.detectChanges();
     flushBoard(boardBody(), '5');
+    http.expectOne('/api/technicians').flush({ items: TECHNICIANS });
     await fixture.whenStable();
     return TestbedHarnessEnvironment.loader(fixture);
   }
@@ -428,5 +461,105 @@ describe('BoardPage', () => {
       expect(root.querySelector('.announcement')?.textContent).toContain('Matches in Bench test');
     });
   });
-});
 
+  describe('undo, send back, flags and assignment', () => {
+    beforeEach(async () => {
+      await setup();
+    });
+
+    it('after a move the snack bar offers Undo until the server’s deadline; Undo puts the card back', async () => {
+      notifier.offer.mockResolvedValue(true);
+      drop('RW-0001', 'intake', 'diagnosis');
+      const until = new Date(Date.now() + 10_000).toISOString();
+      const moved = card('RW-0001', 'diagnosis', { version: 4, stateSince: iso(0), technicianId: 12, technicianName: 'Tobin Reed', previousState: 'intake' });
+      http.expectOne('/api/tickets/RW-0001/moves').flush(detailOf(moved, { undo: { eventId: 77, fromState: 'intake', toState: 'diagnosis', until } }));
+      await fixture.whenStable();
+      expect(notifier.offer).toHaveBeenCalledWith('RW-0001 moved to Diagnosis.', 'Undo', expect.any(Number));
+      const window = notifier.offer.mock.calls[0][2] as number;
+      expect(window).toBeGreaterThan(7_000);
+      expect(window).toBeLessThanOrEqual(9_000);
+      const undo = http.expectOne('/api/tickets/RW-0001/moves/77/undo');
+      expect(undo.request.body).toEqual({ version: 4 });
+      undo.flush(detailOf(card('RW-0001', 'intake', { version: 5, stateSince: iso(5) })));
+      await fixture.whenStable();
+      expect(tagsIn('intake')).toContain('RW-0001');
+      expect(tagsIn('diagnosis')).not.toContain('RW-0001');
+      expect(notifier.info).toHaveBeenCalledWith('Move undone: RW-0001 is back in Intake.');
+    });
+
+    it('a refused undo (too late) says why and fetches the board', async () => {
+      notifier.offer.mockResolvedValue(true);
+      drop('RW-0001', 'intake', 'diagnosis');
+      const moved = card('RW-0001', 'diagnosis', { version: 4, previousState: 'intake' });
+      http.expectOne('/api/tickets/RW-0001/moves').flush(detailOf(moved, { undo: { eventId: 77, fromState: 'intake', toState: 'diagnosis', until: new Date().toISOString() } }));
+      await fixture.whenStable();
+      const message = 'The time to undo this move has passed (10 seconds). Move the ticket back from the board instead; a note says why.';
+      http.expectOne('/api/tickets/RW-0001/moves/77/undo').flush({ error: { code: 'undo_expired', message } }, { status: 410, statusText: 'Gone' });
+      expect(notifier.error).toHaveBeenCalledWith(message);
+      flushBoard(boardBody(), '6');
+      await fixture.whenStable();
+    });
+
+    it('the card’s menu offers Send back to the lane it came from, asks for a note and posts the move', async () => {
+      fixture.componentInstance['board'].reload();
+      flushBoard(boardBody([card('RW-0009', 'repair', { previousState: 'diagnosis', technicianId: 12, technicianName: 'Tobin Reed' })]), '6');
+      await fixture.whenStable();
+      const loader = TestbedHarnessEnvironment.loader(fixture);
+      const menu = await loader.getHarness(MatMenuHarness.with({ selector: '[data-tag="RW-0009"] .card-menu' }));
+      await menu.open();
+      const items = await Promise.all((await menu.getItems()).map((i) => i.getText()));
+      expect(items).toContain('Move to Bench test');
+      expect(items.filter((x) => x.includes('Send back'))).toHaveLength(1);
+      expect(items.find((x) => x.includes('Send back'))).toMatch(/Send back to Diagnosis$/);
+      dialogOpen.mockReturnValueOnce({ afterClosed: () => of('The supply ripple explains it: diagnose again') });
+      await menu.clickItem({ text: /Send back to Diagnosis/ });
+      await fixture.whenStable();
+      expect(dialogOpen.mock.calls[0][1].data.prompt).toBe('Say why it goes back to Diagnosis in the note.');
+      const req = http.expectOne('/api/tickets/RW-0009/moves');
+      expect(req.request.body).toEqual({ to: 'diagnosis', version: 3, note: 'The supply ripple explains it: diagnose again' });
+    });
+
+    it('a card without a lane to go back to offers no Send back', async () => {
+      const loader = TestbedHarnessEnvironment.loader(fixture);
+      const menu = await loader.getHarness(MatMenuHarness.with({ selector: '[data-tag="RW-0001"] .card-menu' }));
+      await menu.open();
+      const items = await Promise.all((await menu.getItems()).map((i) => i.getText()));
+      expect(items.some((x) => x.includes('Send back'))).toBe(false);
+    });
+
+    it('marks parts on order from the card’s menu and shows the flag as a chip with words', async () => {
+      const loader = TestbedHarnessEnvironment.loader(fixture);
+      const menu = await loader.getHarness(MatMenuHarness.with({ selector: '[data-tag="RW-0004"] .card-menu' }));
+      await menu.clickItem({ text: /Mark parts on order/ });
+      const req = http.expectOne('/api/tickets/RW-0004/parts-on-order');
+      expect(req.request.body).toEqual({ partsOnOrder: true });
+      req.flush(detailOf({ ...cardOf('RW-0004'), version: 4, flags: ['parts_on_order'] }));
+      await fixture.whenStable();
+      expect(root.querySelector('[data-tag="RW-0004"] rw-flag-chip[data-flag="parts_on_order"]')?.textContent).toContain('Parts on order');
+      expect(notifier.info).toHaveBeenCalledWith('RW-0004: parts on order.');
+    });
+
+    it('assigns to me, to another technician (submenu) and unassigns from the card’s menu', async () => {
+      const loader = TestbedHarnessEnvironment.loader(fixture);
+      let menu = await loader.getHarness(MatMenuHarness.with({ selector: '[data-tag="RW-0001"] .card-menu' }));
+      await menu.clickItem({ text: /Assign to me/ });
+      let req = http.expectOne('/api/tickets/RW-0001/technician');
+      expect(req.request.body).toEqual({ technicianId: 12 });
+      req.flush(detailOf({ ...cardOf('RW-0001'), version: 4, technicianId: 12, technicianName: 'Tobin Reed' }));
+      await fixture.whenStable();
+      expect(root.querySelector('[data-tag="RW-0001"]')!.textContent).toContain('Tobin Reed');
+
+      menu = await loader.getHarness(MatMenuHarness.with({ selector: '[data-tag="RW-0001"] .card-menu' }));
+      await menu.clickItem({ text: /Assign to another technician/ }, { text: /Ines Marrow/ });
+      req = http.expectOne('/api/tickets/RW-0001/technician');
+      expect(req.request.body).toEqual({ technicianId: 11 });
+      req.flush(detailOf({ ...cardOf('RW-0001'), version: 5, technicianId: 11, technicianName: 'Ines Marrow' }));
+      await fixture.whenStable();
+
+      menu = await loader.getHarness(MatMenuHarness.with({ selector: '[data-tag="RW-0001"] .card-menu' }));
+      await menu.clickItem({ text: /Unassign Ines Marrow/ });
+      req = http.expectOne('/api/tickets/RW-0001/technician');
+      expect(req.request.body).toEqual({ technicianId: null });
+    });
+  });
+});

@@ -27,14 +27,18 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { NOTE_MIN_LENGTH, STATE_LABELS, TicketState } from '@domain/workflow';
 import { debounceTime, distinctUntilChanged, firstValueFrom, map, retry, timer } from 'rxjs';
+import { SessionStore } from '../../../core/auth/session-store';
 import { readApiError } from '../../../core/http/api-error';
 import { Notifier } from '../../../core/notifier';
 import { STATE_ICONS } from '../../../shared/labels';
 import { NoteDialog, NoteDialogData } from '../../../shared/note-dialog/note-dialog';
+import { MovesApi, undoWindowMs } from '../../moves/moves-api';
 import { TicketApi } from '../../tickets/ticket-api';
+import type { TicketDetail } from '../../tickets/ticket.models';
 import { BoardApi } from '../board-api';
-import { BoardLane, LaneView, MoveRequest } from '../board-lane/board-lane';
-import { cardMoveRequirement } from '../board-rules';
+import { BoardLane, CardAction, LaneView, MoveRequest } from '../board-lane/board-lane';
+import { cardMoveRequirement, sendBackOf } from '../board-rules';
+import type { Flag } from '@contracts/board';
 import { Card, LiveSignal, LoadedBoard } from '../board.models';
 
 /** Technician filter value for cards no technician has taken yet (the server's `technician=none`). */
@@ -87,6 +91,8 @@ export type Connection = 'connecting' | 'live' | 'lost';
 export class BoardPage {
   private readonly boardApi = inject(BoardApi);
   private readonly ticketApi = inject(TicketApi);
+  private readonly movesApi = inject(MovesApi);
+  private readonly session = inject(SessionStore);
   private readonly notifier = inject(Notifier);
   private readonly dialog = inject(MatDialog);
   private readonly injector = inject(Injector);
@@ -127,6 +133,9 @@ export class BoardPage {
       return mine && mine.version > c.version ? mine : c;
     });
   });
+  /** Who a ticket can be given to from a card's menu (every active technician, not only those on the board). */
+  protected readonly benchTechnicians = rxResource({ stream: () => this.movesApi.technicians() });
+  protected readonly meId = computed(() => this.session.user()?.id ?? null);
   protected readonly waitLimitHours = computed(() => this.loaded()?.waitLimitHours ?? 72);
   /** Tags with a move on its way to the server: not draggable until it answers. */
   protected readonly pending = signal<ReadonlySet<string>>(new Set());
@@ -348,13 +357,14 @@ export class BoardPage {
 
   private async askForNote(card: Card, to: TicketState, prompt: string): Promise<string | undefined> {
     const draft = this.drafts.get(card.tag);
+    const back = sendBackOf(card) === to;
     const ref = this.dialog.open<NoteDialog, NoteDialogData, string>(NoteDialog, {
       // Focus goes back to the card itself (it may have moved lanes meanwhile), not to the menu.
       restoreFocus: false,
       data: {
-        title: `Move ${card.tag} to ${STATE_LABELS[to]}`,
+        title: back ? `Send ${card.tag} back to ${STATE_LABELS[to]}` : `Move ${card.tag} to ${STATE_LABELS[to]}`,
         prompt,
-        confirmLabel: `Move to ${STATE_LABELS[to]}`,
+        confirmLabel: back ? `Send back to ${STATE_LABELS[to]}` : `Move to ${STATE_LABELS[to]}`,
         minLength: NOTE_MIN_LENGTH,
         ...(draft ? { initialNote: draft, notice: 'Your note from the last try is kept: check it and move again.' } : {}),
       },
@@ -379,6 +389,7 @@ export class BoardPage {
           technicianName: ticket.technicianName ?? card.technicianName,
         });
         this.announcement.set(`${tag} moved to ${STATE_LABELS[ticket.state]}.`);
+        void this.offerUndo(card, ticket);
       },
       error: (err: unknown) => {
         this.setPending(tag, false);
@@ -395,6 +406,62 @@ export class BoardPage {
         if (apiError.status === 409) this.refresh();
       },
     });
+  }
+
+  /**
+   * After a move: the snack bar offers Undo until the server's deadline (`ticket.undo.until`, the
+   * grace period RW_UNDO_GRACE_SECONDS). Undo puts the card back where the server put the ticket.
+   */
+  private async offerUndo(card: Card, ticket: TicketDetail): Promise<void> {
+    const undo = ticket.undo;
+    if (!undo) return;
+    const undone = await this.notifier.offer(`${ticket.tag} moved to ${STATE_LABELS[ticket.state]}.`, 'Undo', undoWindowMs(undo.until));
+    if (!undone) return;
+    this.setPending(ticket.tag, true);
+    this.movesApi.undo(ticket.tag, undo.eventId, ticket.version).subscribe({
+      next: (back) => {
+        this.setPending(ticket.tag, false);
+        this.setLocal(cardFrom(card, back));
+        this.notifier.info(`Move undone: ${back.tag} is back in ${STATE_LABELS[back.state]}.`);
+        this.announcement.set(`Move undone: ${back.tag} is back in ${STATE_LABELS[back.state]}.`);
+        this.followCard(back.tag, back.state);
+      },
+      error: (err: unknown) => this.actionFailed(ticket.tag, err),
+    });
+  }
+
+  /** "Parts on order" and assignment from a card's menu. */
+  protected cardAction(action: CardAction): void {
+    const { card } = action;
+    if (this.pending().has(card.tag)) return;
+    this.setPending(card.tag, true);
+    const request =
+      action.kind === 'parts' ? this.movesApi.setPartsOnOrder(card.tag, action.on) : this.movesApi.assign(card.tag, action.technicianId);
+    request.subscribe({
+      next: (ticket) => {
+        this.setPending(card.tag, false);
+        this.setLocal(cardFrom(card, ticket));
+        const said =
+          action.kind === 'parts'
+            ? `${card.tag}: ${action.on ? 'parts on order' : 'parts no longer on order'}.`
+            : ticket.technicianName
+              ? `${card.tag} is now with ${ticket.technicianName}.`
+              : `${card.tag} is not taken by anyone now.`;
+        this.notifier.info(said);
+        this.announcement.set(said);
+        this.focusCard(card.tag);
+      },
+      error: (err: unknown) => this.actionFailed(card.tag, err),
+    });
+  }
+
+  private actionFailed(tag: string, err: unknown): void {
+    this.setPending(tag, false);
+    const apiError = readApiError(err);
+    if (apiError.status === 401) return;
+    this.notifier.error(apiError.message);
+    this.announcement.set(`${tag}: ${apiError.message}`);
+    this.refresh();
   }
 
   /** Keeps the card in sight and focus on it: on a phone, show its lane; then focus its menu button. */
@@ -449,4 +516,24 @@ export class BoardPage {
   protected clearFilters(): void {
     this.filters.setValue({ technician: '', q: '' });
   }
+}
+
+/** The card as the server answered for its ticket (after an undo, a flag or an assignment). */
+export function cardFrom(card: Card, ticket: TicketDetail): Card {
+  // The server's order: awaiting approval, parts on order, then the flags of other features.
+  const flags: Flag[] = [
+    ...(ticket.awaitingApproval ? (['awaiting_approval'] as const) : []),
+    ...(ticket.partsOnOrder ? (['parts_on_order'] as const) : []),
+    ...card.flags.filter((f) => f !== 'parts_on_order' && f !== 'awaiting_approval'),
+  ];
+  return {
+    ...card,
+    state: ticket.state,
+    stateSince: ticket.stateSince,
+    version: ticket.version,
+    technicianId: ticket.technicianId,
+    technicianName: ticket.technicianName,
+    previousState: ticket.previousState,
+    flags,
+  };
 }

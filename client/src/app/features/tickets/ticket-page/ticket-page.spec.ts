@@ -8,6 +8,8 @@ import { Role } from '../../../core/auth/auth.models';
 import { SessionStore } from '../../../core/auth/session-store';
 import { Notifier } from '../../../core/notifier';
 import { TicketDetail } from '../ticket.models';
+import { of } from 'rxjs';
+import { MovesApi } from '../../moves/moves-api';
 import { TicketPage } from './ticket-page';
 
 function detail(extra: Partial<TicketDetail> = {}): TicketDetail {
@@ -34,6 +36,9 @@ function detail(extra: Partial<TicketDetail> = {}): TicketDetail {
     technicianName: 'Tobin Marsh',
     awaitingApproval: false,
     partsOnOrder: false,
+    technicianId: 3,
+    previousState: null,
+    undo: null,
     events: [
       { id: 1, at: '2026-11-30T18:00:00Z', actorName: 'Perrin Sallow', kind: 'opened', fromState: null, toState: 'intake', note: null, ownerVisible: true },
       { id: 2, at: '2026-11-30T19:00:00Z', actorName: 'Tobin Marsh', kind: 'moved', fromState: 'intake', toState: 'diagnosis', note: 'Taking it.', ownerVisible: true },
@@ -57,13 +62,23 @@ describe('TicketPage', () => {
   let http: HttpTestingController;
   let root: HTMLElement;
 
-  async function setup(roles: Role[]) {
+  let movesApi: { technicians: () => unknown; undo: ReturnType<typeof vi.fn> };
+  let notifier: { info: ReturnType<typeof vi.fn>; error: ReturnType<typeof vi.fn>; offer: ReturnType<typeof vi.fn> };
+
+  async function setup(roles: Role[], ticket = detail()) {
+    notifier = { info: vi.fn(), error: vi.fn(), offer: vi.fn().mockResolvedValue(false) };
+    movesApi = {
+      technicians: () => of([{ id: 3, displayName: 'Tobin Marsh', callSign: null }]),
+      undo: vi.fn(() => of(detail({ version: 7 }))),
+    };
     TestBed.configureTestingModule({
       providers: [
         provideHttpClient(),
         provideHttpClientTesting(),
         provideRouter([]),
-        { provide: Notifier, useValue: { info: vi.fn(), error: vi.fn() } },
+        { provide: Notifier, useValue: notifier },
+        // The "On the bench" section's list of technicians, and the undo (checked through this stand-in).
+        { provide: MovesApi, useValue: movesApi },
       ],
     });
     TestBed.inject(SessionStore).set({ id: 3, email: 't@kestrelfen.example', displayName: 'Tobin Marsh', callSign: null, roles });
@@ -72,7 +87,7 @@ describe('TicketPage', () => {
     fixture.componentRef.setInput('tag', 'RW-0007');
     root = fixture.nativeElement;
     fixture.detectChanges();
-    http.expectOne('/api/tickets/RW-0007').flush(detail());
+    http.expectOne('/api/tickets/RW-0007').flush(ticket);
     await flushSections();
     await fixture.whenStable();
   }
@@ -125,7 +140,7 @@ describe('TicketPage', () => {
     expect(root.textContent).toContain('The owner has not consented to a reflash.');
     expect(root.textContent).toContain('Say why it goes back unrepaired in the note.');
     expect(root.textContent).not.toContain('Not a lane from here.');
-  });
+  }, 20_000); // the first technician render loads the bench section's Material modules: slow on a busy machine
 
   it('a note enables the move that only wanted a note, and it is sent with the version', async () => {
     await setup(['technician']);
@@ -162,5 +177,38 @@ describe('TicketPage', () => {
     await flushSections();
     await fixture.whenStable();
     expect(root.querySelector('[role="alert"]')?.textContent).toContain('Someone else moved this ticket.');
+  });
+
+  it('offers Send back to the lane it came from, live once a note is written, sent like a move', async () => {
+    const sendBack = { to: 'intake' as const, allowed: true, noteRequired: true as const, reason: 'Say why it goes back to Intake in the note.' };
+    await setup(['technician'], detail({ previousState: 'intake', moves: detail().moves.map((m) => (m.to === 'intake' ? sendBack : m)) }));
+    expect(moveButtons()).toContainEqual({ text: 'Send back to Intake', disabled: true });
+    expect(root.textContent).toContain('Say why it goes back to Intake in the note.');
+    const note = root.querySelector<HTMLTextAreaElement>('textarea[formcontrolname="note"]')!;
+    note.value = 'Serial number missing from the intake.';
+    note.dispatchEvent(new Event('input'));
+    await fixture.whenStable();
+    const back = Array.from(root.querySelectorAll<HTMLButtonElement>('.move-list button')).find((b) => b.textContent?.includes('Send back'))!;
+    expect(back.disabled).toBe(false);
+    back.click();
+    const req = http.expectOne('/api/tickets/RW-0007/moves');
+    expect(req.request.body).toEqual({ to: 'intake', version: 5, note: 'Serial number missing from the intake.' });
+  });
+
+  it('after a move the snack bar offers Undo; choosing it posts the undo and shows the ticket back', async () => {
+    await setup(['technician']);
+    notifier.offer.mockResolvedValue(true);
+    Array.from(root.querySelectorAll<HTMLButtonElement>('.move-list button')).find((b) => b.textContent?.includes('Repair'))!.click();
+    const until = new Date(Date.now() + 10_000).toISOString();
+    http.expectOne('/api/tickets/RW-0007/moves').flush(detail({ state: 'repair', version: 6, undo: { eventId: 31, fromState: 'diagnosis', toState: 'repair', until } }));
+    await fixture.whenStable();
+    expect(notifier.offer).toHaveBeenCalledWith('RW-0007 moved to Repair.', 'Undo', expect.any(Number));
+    const window = notifier.offer.mock.calls[0][2] as number;
+    expect(window).toBeGreaterThan(7_000);
+    expect(window).toBeLessThanOrEqual(9_000);
+    expect(movesApi.undo).toHaveBeenCalledWith('RW-0007', 31, 6);
+    await fixture.whenStable();
+    expect(root.querySelector('rw-state-chip')?.textContent).toContain('Diagnosis');
+    expect(notifier.info).toHaveBeenCalledWith('Move undone: RW-0007 is back in Diagnosis.');
   });
 });

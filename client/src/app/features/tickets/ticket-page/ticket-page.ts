@@ -9,7 +9,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
-import { ALLOWED_MOVES, hasNote } from '@domain/workflow';
+import { ALLOWED_MOVES, hasNote, sendBackTarget } from '@domain/workflow';
 import { SessionStore } from '../../../core/auth/session-store';
 import { readApiError } from '../../../core/http/api-error';
 import { Notifier } from '../../../core/notifier';
@@ -22,6 +22,8 @@ import { BenchRecords } from '../../bench-records/bench-records/bench-records';
 import { DiagnosisSection } from '../../owner-records/diagnosis-section/diagnosis-section';
 import { NotesSection } from '../../owner-records/notes-section/notes-section';
 import { QuoteSection } from '../../owner-records/quote-section/quote-section';
+import { MovesApi, undoWindowMs } from '../../moves/moves-api';
+import { TicketBench } from '../../moves/ticket-bench/ticket-bench';
 import { TicketApi } from '../ticket-api';
 import { TicketDetail, MoveOption } from '../ticket.models';
 
@@ -40,6 +42,7 @@ import { TicketDetail, MoveOption } from '../ticket.models';
     DiagnosisSection,
     NotesSection,
     QuoteSection,
+    TicketBench,
     MatCardModule,
     MatButtonModule,
     MatIconModule,
@@ -57,6 +60,7 @@ export class TicketPage {
 
   private readonly api = inject(TicketApi);
   private readonly notifier = inject(Notifier);
+  private readonly movesApi = inject(MovesApi);
   protected readonly session = inject(SessionStore);
   /** Members see only their own tickets, so the list is theirs. */
   protected readonly backLabel = computed(() =>
@@ -76,13 +80,18 @@ export class TicketPage {
   protected readonly noteForm = inject(NonNullableFormBuilder).group({ note: ['', [Validators.maxLength(2000)]] });
   private readonly note = toSignal(this.noteForm.controls.note.valueChanges, { initialValue: '' });
 
-  /** Only the lanes the workflow allows from here; the others are not choices at all. */
+  /** Only the lanes the workflow allows from here, and the way back; the others are not choices at all. */
   protected readonly moves = computed<MoveOption[]>(() => {
     if (!this.ticket.hasValue()) return [];
     const t = this.ticket.value();
     const lanes = ALLOWED_MOVES[t.state] ?? [];
-    return t.moves.filter((m) => lanes.includes(m.to));
+    const back = this.sendBack();
+    return t.moves.filter((m) => lanes.includes(m.to) || m.to === back);
   });
+  /** The lane it came from, when going there is a send-back (a note says why). */
+  protected readonly sendBack = computed(() =>
+    this.ticket.hasValue() ? sendBackTarget({ state: this.ticket.value().state, previousState: this.ticket.value().previousState }) : null,
+  );
 
   /**
    * Whether a move button is live. The server asks the workflow (`moveRequirement`) and marks a
@@ -104,7 +113,7 @@ export class TicketPage {
         this.ticket.value.set(updated);
         this.noteForm.reset();
         this.moving.set(false);
-        this.notifier.info(`${updated.tag} moved to ${stateLabel(updated.state)}.`);
+        void this.offerUndo(updated);
       },
       error: (err: unknown) => {
         const apiError = readApiError(err);
@@ -113,6 +122,27 @@ export class TicketPage {
         );
         this.moving.set(false);
         if (apiError.status === 409) this.ticket.reload();
+      },
+    });
+  }
+
+  /** The snack bar offers Undo until the server's deadline; Undo puts the ticket back. */
+  private async offerUndo(updated: TicketDetail): Promise<void> {
+    const message = `${updated.tag} moved to ${stateLabel(updated.state)}.`;
+    if (!updated.undo) {
+      this.notifier.info(message);
+      return;
+    }
+    const undo = updated.undo;
+    if (!(await this.notifier.offer(message, 'Undo', undoWindowMs(undo.until)))) return;
+    this.movesApi.undo(updated.tag, undo.eventId, updated.version).subscribe({
+      next: (back) => {
+        this.ticket.value.set(back);
+        this.notifier.info(`Move undone: ${back.tag} is back in ${stateLabel(back.state)}.`);
+      },
+      error: (err: unknown) => {
+        this.moveError.set(readApiError(err).message);
+        this.ticket.reload();
       },
     });
   }
