@@ -78,7 +78,7 @@ async function clientUnitTests() {
 }
 
 async function apiTests() {
-  const files = ['api', 'db', 'scripts'].flatMap((dir) => findFiles(path.join(ROOT, dir), '.test.ts'));
+  const files = ['api', 'db', 'scripts', 'payments-fake'].flatMap((dir) => findFiles(path.join(ROOT, dir), '.test.ts'));
   const { code, output } = await run(
     process.execPath,
     ['--import', 'tsx', '--test', '--test-concurrency=1', '--test-reporter=spec', ...files],

@@ -23,6 +23,7 @@ import { createFirmwareRouter } from './modules/firmware/firmware.router';
 import { createFlashAttemptsRouter } from './modules/firmware/flash-attempts.router';
 import { createBenchesRouter } from './modules/benches/benches.router';
 import { createBookingsRouter } from './modules/bookings/bookings.router';
+import { createBookingChargesRouter, createChargesRouter, createFeesRouter, createPaymentsRouter, createReconciliationRouter, createTicketLedgerRouter, WEBHOOK_PATH } from './modules/payments/payments.router';
 
 export function createApp(init: AppDepsInit): express.Express {
   const deps = appDeps(init);
@@ -76,6 +77,8 @@ export function createApp(init: AppDepsInit): express.Express {
     res.setHeader('Cache-Control', 'no-store');
     next();
   });
+  // The provider's webhook is verified over its exact bytes: read raw, before the JSON parser.
+  app.use(`/api${WEBHOOK_PATH}`, express.raw({ type: () => true, limit: '256kb' }));
   app.use(express.json(jsonBodyOptions));
   app.use(cookieParser());
   app.use('/api', sessionMiddleware(deps));
@@ -84,12 +87,18 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use('/api/auth', createAuthRouter(deps));
   app.use('/api/users', createUsersRouter(deps));
   app.use('/api/tickets/:tag/flash-attempts', createFlashAttemptsRouter(deps));
+  app.use('/api/tickets/:tag/ledger', createTicketLedgerRouter(deps));
   app.use('/api/tickets', createTicketsRouter(deps));
   app.use('/api/board', createBoardRouter(deps));
   app.use('/api/calc', requireSignedIn, calcRouter);
   app.use('/api/firmware', createFirmwareRouter(deps));
   app.use('/api/benches', createBenchesRouter(deps));
+  app.use('/api/bookings/:bookingId/charges', createBookingChargesRouter(deps));
   app.use('/api/bookings', createBookingsRouter(deps));
+  app.use('/api/fees', createFeesRouter(deps));
+  app.use('/api/charges', createChargesRouter(deps));
+  app.use('/api/payments', createPaymentsRouter(deps));
+  app.use('/api/reconciliation', createReconciliationRouter(deps));
   app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route.', 'route_not_found')));
 
   // The built client, with the single-page fallback for its routes.

@@ -12,6 +12,10 @@ export const EVENT_KINDS = [
   'opened',
   'moved',
   'note',
+  'charge_added',
+  'charge_waived',
+  'payment_received',
+  'payment_refunded',
 ] as const;
 export type EventKind = (typeof EVENT_KINDS)[number];
 

@@ -18,6 +18,7 @@ import { formatTag, parseTag } from './tag';
 import { ticketMovedMail, ticketOpenedMail } from './ticket-mails';
 import { ticketSearchWhere } from './ticket-search';
 import { hasVerifiedFlash } from '../firmware/flash-attempts.service';
+import { balanceSettledOf } from '../payments/ledger.service';
 import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
 
 export type TicketsDeps = Pick<AppDeps, 'sequelize' | 'config' | 'clock'>;
@@ -50,13 +51,13 @@ export type RecordedFacts = Pick<
 >;
 
 export async function recordedFactsOf(sequelize: Sequelize, ticketId: number, transaction?: Transaction): Promise<RecordedFacts> {
-  const [verifiedFlash] = await Promise.all([hasVerifiedFlash(sequelize, ticketId, transaction)]);
+  const [verifiedFlash, settled] = await Promise.all([hasVerifiedFlash(sequelize, ticketId, transaction), balanceSettledOf(sequelize, ticketId, transaction)]);
   return {
     hasVerifiedFlash: verifiedFlash,
     hasPassedTestSheet: false,
     hasFailedTestSheet: false,
     returnedItemsChecked: false,
-    balanceSettled: false,
+    balanceSettled: settled,
   };
 }
 
