@@ -210,7 +210,9 @@ async function findPayment(lookup: PaymentLookup, transaction: import('sequelize
   // The session's metadata names our payment (its id may not be saved yet when the event wins the race).
   if (lookup.paymentId) {
     const p = await Payment.findByPk(lookup.paymentId, { transaction });
-    if (p && p.method === 'card' && (!p.checkoutSessionId || p.checkoutSessionId === lookup.sessionId)) return p;
+    const sameSession = lookup.sessionId ? !p?.checkoutSessionId || p.checkoutSessionId === lookup.sessionId : true;
+    const sameIntent = lookup.paymentIntentId ? !p?.paymentIntentId || p.paymentIntentId === lookup.paymentIntentId : true;
+    if (p && p.method === 'card' && sameSession && sameIntent) return p;
   }
   return null;
 }
