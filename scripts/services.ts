@@ -109,6 +109,22 @@ function newestMtime(dir: string): number {
   return newest;
 }
 
+/**
+ * The local fake of the payment provider (payments-fake/main.ts) on 127.0.0.1:`port`, sending its
+ * signed webhooks to `webhookUrl`. Reused when something already answers there.
+ */
+export async function startPaymentsFake(port: number, webhookUrl: string, env: Record<string, string> = {}, opts: { quiet?: boolean } = {}): Promise<Service> {
+  const health = `http://127.0.0.1:${port}/_fake/health`;
+  if (await answers(health)) return { name: 'payments fake', startedHere: false, stop: async () => {} };
+  const child = spawn(process.execPath, ['--import', 'tsx', 'payments-fake/main.ts'], {
+    cwd: ROOT,
+    env: { ...process.env, ...env, RW_PAY_PORT: String(port), RW_PAY_WEBHOOK_URL: webhookUrl },
+    stdio: opts.quiet ? ['ignore', 'ignore', 'inherit'] : ['ignore', 'ignore', 'inherit'],
+  });
+  await waitFor(health, 'The payments fake', child, 30_000);
+  return { name: 'payments fake', startedHere: true, stop: stopChild(child, 'the payments fake') };
+}
+
 /** Builds the client when dist/ is missing or older than its sources. */
 export function buildClientIfStale(): void {
   const index = path.join(ROOT, 'dist', 'client', 'browser', 'index.html');
