@@ -79,6 +79,11 @@ export const routes: Routes = [
     loadChildren: () => import('./features/benches/benches.routes').then((m) => m.BENCH_ROUTES),
   },
   {
+    path: 'treasurer',
+    canActivate: [roleGuard('treasurer')],
+    loadChildren: () => import('./features/payments/treasurer.routes').then((m) => m.TREASURER_ROUTES),
+  },
+  {
     path: 'calculators',
     title: 'Bench calculators · Rigwright',
     canActivate: [signedInGuard],
