@@ -95,7 +95,8 @@ export async function startApi(env: Record<string, string>, opts: { quiet?: bool
     env: { ...process.env, ...env },
     stdio: opts.quiet ? ['ignore', 'ignore', 'inherit'] : ['ignore', 'inherit', 'inherit'],
   });
-  await waitFor(url, 'The API', child, 60_000);
+  // A loaded machine can take well over a minute to compile and boot the API (RW_START_TIMEOUT_MS).
+  await waitFor(url, 'The API', child, Number(process.env.RW_START_TIMEOUT_MS ?? 180_000));
   return { name: 'api', startedHere: true, stop: stopChild(child, 'the API') };
 }
 

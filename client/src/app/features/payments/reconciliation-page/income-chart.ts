@@ -25,8 +25,18 @@ export class IncomeChart implements OnDestroy {
   constructor() {
     effect(() => {
       const m = this.month();
-      const css = getComputedStyle(this.canvas().nativeElement);
-      const colour = (name: string, fallback: string) => css.getPropertyValue(name).trim() || fallback;
+      // The theme's colours are CSS variables that may hold light-dark(...), which a canvas cannot
+      // read: let the browser resolve each one on a hidden probe and take the computed rgb().
+      const host = this.canvas().nativeElement.parentElement!;
+      const colour = (name: string, fallback: string) => {
+        const probe = document.createElement('span');
+        probe.style.display = 'none';
+        probe.style.color = `var(${name}, ${fallback})`;
+        host.appendChild(probe);
+        const value = getComputedStyle(probe).color;
+        probe.remove();
+        return value || fallback;
+      };
       const text = colour('--mat-sys-on-surface', '#1b1b1b');
       const grid = colour('--mat-sys-outline-variant', '#c4c7c5');
       const digits = 10 ** (new Intl.NumberFormat('en', { style: 'currency', currency: m.currency }).resolvedOptions().maximumFractionDigits ?? 2);
