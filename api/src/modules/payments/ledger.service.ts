@@ -197,6 +197,15 @@ export async function getTicketLedger(deps: PaymentsDeps, user: SessionUser, inp
   return ledgerDto(await loadLedger({ ticketId: ticket.id }), currency);
 }
 
+/**
+ * A ticket's ledger by id, without a signed-in person: for the owner's signed status link, whose
+ * route has already checked the link (the lead wires it with issue 7).
+ */
+export async function ticketLedgerById(deps: PaymentsDeps, ticketId: number): Promise<LedgerDto> {
+  const { currency } = await clubMoney(deps.sequelize);
+  return ledgerDto(await loadLedger({ ticketId }), currency);
+}
+
 async function timeline(transaction: Transaction, ticketId: number, actorId: number | null, kind: EventKind, note: string, now: Date): Promise<void> {
   await TicketEvent.create({ ticketId, actorId, kind, fromState: null, toState: null, note, ownerVisible: true, createdAt: now }, { transaction });
 }
