@@ -11,6 +11,7 @@ import * as m025 from './migrations/025-ticket-events-open';
 import * as m035 from './migrations/035-diagnosis-quotes-owner-links';
 import * as m050 from './migrations/050-bench-records';
 import * as m055 from './migrations/055-move-undo-and-mail-grace';
+import * as m060 from './migrations/060-payments';
 
 type Step = { up(qi: QueryInterface): Promise<void>; down(qi: QueryInterface): Promise<void> };
 const MIGRATIONS: [string, Step][] = [
@@ -23,6 +24,7 @@ const MIGRATIONS: [string, Step][] = [
   ['035-diagnosis-quotes-owner-links', m035],
   ['050-bench-records', m050],
   ['055-move-undo-and-mail-grace', m055],
+  ['060-payments', m060],
 ];
 
 export function createMigrator(sequelize: Sequelize, log = false) {

@@ -19,6 +19,7 @@ import * as s003 from './seeders/003-demo-club-settings';
 import { DEMO_CLUB_NAME } from './seeders/demo-club';
 import * as s004 from './seeders/004-demo-firmware';
 import * as s020 from './seeders/020-demo-benches';
+import * as s060 from './seeders/060-demo-fees';
 import { seedBoardLoad } from './seeders/board-load';
 
 export { seedBoardLoad };
@@ -30,6 +31,7 @@ const SEEDERS: [string, Seed][] = [
   ['003-demo-club-settings', s003],
   ['004-demo-firmware', s004],
   ['020-demo-benches', s020],
+  ['060-demo-fees', s060],
 ];
 
 export function createSeeder(sequelize: Sequelize, log = false) {

@@ -95,7 +95,8 @@ export async function startApi(env: Record<string, string>, opts: { quiet?: bool
     env: { ...process.env, ...env },
     stdio: opts.quiet ? ['ignore', 'ignore', 'inherit'] : ['ignore', 'inherit', 'inherit'],
   });
-  await waitFor(url, 'The API', child, 60_000);
+  // A loaded machine can take well over a minute to compile and boot the API (RW_START_TIMEOUT_MS).
+  await waitFor(url, 'The API', child, Number(process.env.RW_START_TIMEOUT_MS ?? 180_000));
   return { name: 'api', startedHere: true, stop: stopChild(child, 'the API') };
 }
 
@@ -107,6 +108,22 @@ function newestMtime(dir: string): number {
     else newest = Math.max(newest, statSync(full).mtimeMs);
   }
   return newest;
+}
+
+/**
+ * The local fake of the payment provider (payments-fake/main.ts) on 127.0.0.1:`port`, sending its
+ * signed webhooks to `webhookUrl`. Reused when something already answers there.
+ */
+export async function startPaymentsFake(port: number, webhookUrl: string, env: Record<string, string> = {}, opts: { quiet?: boolean } = {}): Promise<Service> {
+  const health = `http://127.0.0.1:${port}/_fake/health`;
+  if (await answers(health)) return { name: 'payments fake', startedHere: false, stop: async () => {} };
+  const child = spawn(process.execPath, ['--import', 'tsx', 'payments-fake/main.ts'], {
+    cwd: ROOT,
+    env: { ...process.env, ...env, RW_PAY_PORT: String(port), RW_PAY_WEBHOOK_URL: webhookUrl },
+    stdio: opts.quiet ? ['ignore', 'ignore', 'inherit'] : ['ignore', 'ignore', 'inherit'],
+  });
+  await waitFor(health, 'The payments fake', child, 30_000);
+  return { name: 'payments fake', startedHere: true, stop: stopChild(child, 'the payments fake') };
 }
 
 /** Builds the client when dist/ is missing or older than its sources. */

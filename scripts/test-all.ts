@@ -8,7 +8,7 @@ import { readFileSync, readdirSync, existsSync, mkdirSync, rmSync } from 'node:f
 import path from 'node:path';
 import { ensureDatabase, ensureLocalMariaDb } from '../db/local-mariadb';
 import { ensureDebianPackages } from '../db/debian-packages';
-import { ROOT, buildClientIfStale, runTs, startApi, startMaildev, type Service } from './services';
+import { ROOT, buildClientIfStale, runTs, startApi, startMaildev, startPaymentsFake, type Service } from './services';
 
 interface SuiteResult {
   name: string;
@@ -24,6 +24,8 @@ const DB_PORT = process.env.RW_DB_PORT ?? '3407';
 const E2E_PORT = process.env.RW_E2E_PORT ?? '4320';
 const E2E_SMTP_PORT = process.env.RW_E2E_SMTP_PORT ?? '1225';
 const E2E_MAIL_WEB_PORT = process.env.RW_E2E_MAIL_WEB_PORT ?? '1280';
+// The browser suite's own payments fake (the SDK of its API points there).
+const E2E_PAY_PORT = process.env.RW_E2E_PAY_PORT ?? '4311';
 const started: Service[] = [];
 const results: SuiteResult[] = [];
 
@@ -78,7 +80,7 @@ async function clientUnitTests() {
 }
 
 async function apiTests() {
-  const files = ['api', 'db', 'scripts'].flatMap((dir) => findFiles(path.join(ROOT, dir), '.test.ts'));
+  const files = ['api', 'db', 'scripts', 'payments-fake'].flatMap((dir) => findFiles(path.join(ROOT, dir), '.test.ts'));
   const { code, output } = await run(
     process.execPath,
     ['--import', 'tsx', '--test', '--test-concurrency=1', '--test-reporter=spec', ...files],
@@ -145,10 +147,14 @@ async function browserTests() {
     RW_LOG_LEVEL: 'warn',
     // A fresh random session secret for this run (never the repository's development default).
     RW_JWT_SECRET: randomBytes(48).toString('base64url'),
+    RW_STRIPE_HOST: '127.0.0.1',
+    RW_STRIPE_PORT: E2E_PAY_PORT,
+    RW_STRIPE_PROTOCOL: 'http',
   };
   runTs('db/migrate.ts', ['up'], env);
   runTs('db/seed.ts', [], env);
   started.push(await startMaildev(Number(E2E_SMTP_PORT), Number(E2E_MAIL_WEB_PORT), { quiet: true }));
+  started.push(await startPaymentsFake(Number(E2E_PAY_PORT), `http://127.0.0.1:${E2E_PORT}/api/payments/webhook`, { RW_PAY_RETRY_BASE_MS: '300' }, { quiet: true }));
   started.push(await startApi(env, { quiet: true }));
   const report = path.join(ROOT, 'test-results', 'e2e-report.json');
   rmSync(report, { force: true });
@@ -156,6 +162,7 @@ async function browserTests() {
   const { code } = await run(process.execPath, [pw, 'test', '--config', 'e2e/playwright.config.ts'], {
     RW_E2E_URL: `http://127.0.0.1:${E2E_PORT}`,
     RW_E2E_MAIL_URL: `http://127.0.0.1:${E2E_MAIL_WEB_PORT}`,
+    RW_E2E_PAY_URL: `http://127.0.0.1:${E2E_PAY_PORT}`,
     PLAYWRIGHT_JSON_OUTPUT_NAME: report,
   });
   let passed = 0, failed = 0, skipped = 0;

@@ -105,10 +105,34 @@ const ACCESS: Record<string, Actor[]> = {
   'POST /api/owner/status/:tag/:token/consent': ACTORS,
   'GET /api/owner/approval/:tag/:token': ACTORS,
   'POST /api/owner/approval/:tag/:token': ACTORS,
+  'GET /api/fees': SIGNED_IN,
+  'POST /api/fees': ['treasurer'],
+  'POST /api/fees/:feeId/prices': ['treasurer'],
+  'GET /api/tickets/:tag/ledger': ['owner', 'technician', 'treasurer', 'admin'],
+  'POST /api/tickets/:tag/ledger/charges': ['technician', 'treasurer', 'admin'],
+  'POST /api/tickets/:tag/ledger/payments': ['treasurer'],
+  'POST /api/tickets/:tag/ledger/checkout': ['owner'], // members only, and only their own ticket
+  'GET /api/bookings/:bookingId/charges': ['owner', 'technician', 'treasurer', 'admin'],
+  'POST /api/bookings/:bookingId/charges': ['technician', 'treasurer', 'admin'],
+  'POST /api/charges/:chargeId/waivers': ['treasurer'],
+  'POST /api/payments/webhook': ACTORS, // signed by the provider instead (no signature: 400)
+  'POST /api/payments/:paymentId/refunds': ['treasurer'],
+  'GET /api/payments/:paymentId/receipt.pdf': ['owner', 'treasurer', 'admin'],
+  'GET /api/reconciliation/:month': ['treasurer'],
+  'GET /api/reconciliation/:month/csv': ['treasurer'],
+  'POST /api/reconciliation/:month/close': ['treasurer'],
 };
 
 /** Routes where someone else's object answers 404 (it is not theirs to know about), not 403. */
-const NOT_YOURS = new Set(['GET /api/bookings/:bookingId', 'PATCH /api/bookings/:bookingId', 'POST /api/bookings/:bookingId/cancel']);
+const NOT_YOURS = new Set([
+  'GET /api/bookings/:bookingId',
+  'PATCH /api/bookings/:bookingId',
+  'POST /api/bookings/:bookingId/cancel',
+  'GET /api/bookings/:bookingId/charges',
+  'GET /api/payments/:paymentId/receipt.pdf',
+]);
+/** Routes that refuse a role with 403 and someone else's object (with the role) with 404. */
+const ROLE_THEN_OWNER = new Set(['POST /api/tickets/:tag/ledger/checkout']);
 
 const PASSWORD = 'matrix-sweep-passphrase';
 const ACCOUNTS: Record<Exclude<Actor, 'anonymous'>, Role[]> = {
@@ -127,6 +151,7 @@ let bench = { benchId: 0, ruleId: 0, bookingId: 0 };
 let sheetId = 0;
 let sheetTag = '';
 const ownerTokens = { status: '', approve: '' };
+let paymentId = 0;
 
 before(async () => {
   // Every request below signs in afresh; lift the per-address throttle for this sweep only.
@@ -207,6 +232,17 @@ before(async () => {
     ownerTokens.status = await issueOwnerLink(transaction, { purpose: 'status', ticketId }, new Date());
     ownerTokens.approve = await issueOwnerLink(transaction, { purpose: 'approve', ticketId }, new Date());
   });
+
+  // A charge and a cash payment on the owner's ticket, so the receipt route has a payment to find.
+  const treasurer = await client('treasurer');
+  const today = new Date().toISOString().slice(0, 10);
+  const fees = await treasurer.post('/api/fees', { code: 'diagnosis', name: 'Diagnosis', unit: 'each', memberPrice: 500, nonMemberPrice: 800, effectiveFrom: today });
+  assert.equal(fees.status, 201, fees.text);
+  const charged = await tech.post(`/api/tickets/${ticketTag}/ledger/charges`, { feeItemId: fees.body.items[0].id, quantity: 1 });
+  assert.equal(charged.status, 201, charged.text);
+  const paid = await treasurer.post(`/api/tickets/${ticketTag}/ledger/payments`, { method: 'cash', amount: 500, reference: 'Matrix cash book' });
+  assert.equal(paid.status, 201, paid.text);
+  paymentId = paid.body.payments[0].id;
 });
 
 after(() => t.close());
@@ -228,7 +264,11 @@ function urlFor(path: string): string {
     .replace(':eventId', '1')
     .replace(':benchId', String(bench.benchId))
     .replace(':ruleId', String(bench.ruleId))
-    .replace(':bookingId', String(bench.bookingId));
+    .replace(':bookingId', String(bench.bookingId))
+    .replace(':feeId', '1')
+    .replace(':chargeId', '1')
+    .replace(':paymentId', String(paymentId))
+    .replace(':month', '2026-01');
 }
 
 test('every registered API route has a row in the access matrix', () => {
@@ -272,6 +312,8 @@ for (const [route, allowed] of Object.entries(ACCESS)) {
             ? [401]
             : NOT_YOURS.has(route)
               ? [404]
+              : ROLE_THEN_OWNER.has(route)
+                ? [403, 404]
               : path.includes(':tag') && method === 'GET'
                 ? allowed.includes('owner')
                   ? [404]

@@ -31,6 +31,7 @@ import { createNotesRouter } from './modules/notes/notes.router';
 import { createQuoteSettingsRouter, createQuotesRouter } from './modules/quotes/quotes.router';
 import { createOwnerLinksRouter } from './modules/owner-links/owner-links.router';
 import { createTechniciansRouter, createTicketMovesRouter } from './modules/moves/moves.router';
+import { createBookingChargesRouter, createChargesRouter, createFeesRouter, createPaymentsRouter, createReconciliationRouter, createTicketLedgerRouter, WEBHOOK_PATH } from './modules/payments/payments.router';
 
 export function createApp(init: AppDepsInit): express.Express {
   const deps = appDeps(init);
@@ -84,6 +85,8 @@ export function createApp(init: AppDepsInit): express.Express {
     res.setHeader('Cache-Control', 'no-store');
     next();
   });
+  // The provider's webhook is verified over its exact bytes: read raw, before the JSON parser.
+  app.use(`/api${WEBHOOK_PATH}`, express.raw({ type: () => true, limit: '256kb' }));
   app.use(express.json(jsonBodyOptions));
   app.use(cookieParser());
   app.use('/api', sessionMiddleware(deps));
@@ -101,6 +104,7 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use('/api/tickets/:tag', createDiagnosisRouter(deps));
   app.use('/api/tickets/:tag', createTicketMovesRouter(deps));
   app.use('/api/technicians', createTechniciansRouter());
+  app.use('/api/tickets/:tag/ledger', createTicketLedgerRouter(deps));
   app.use('/api/tickets', createTicketsRouter(deps));
   app.use('/api/club/quote-settings', createQuoteSettingsRouter(deps));
   app.use('/api/owner', createOwnerLinksRouter(deps));
@@ -108,7 +112,12 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use('/api/calc', requireSignedIn, calcRouter);
   app.use('/api/firmware', createFirmwareRouter(deps));
   app.use('/api/benches', createBenchesRouter(deps));
+  app.use('/api/bookings/:bookingId/charges', createBookingChargesRouter(deps));
   app.use('/api/bookings', createBookingsRouter(deps));
+  app.use('/api/fees', createFeesRouter(deps));
+  app.use('/api/charges', createChargesRouter(deps));
+  app.use('/api/payments', createPaymentsRouter(deps));
+  app.use('/api/reconciliation', createReconciliationRouter(deps));
   app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route.', 'route_not_found')));
 
   // The built client, with the single-page fallback for its routes.

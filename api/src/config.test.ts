@@ -7,6 +7,7 @@ import { DEV_DB_PASSWORD, DEV_JWT_SECRET, loadConfig } from './config';
 
 const REAL_SECRET = 'q9V4m1Zr7Xc2Lk8Tb5Nw3Hs6Jd0Pf4Ye1Ga7Uo2Ri';
 const REAL_DB_PASSWORD = 'heron-flats-cellar-42';
+const REAL_PAYMENT_KEYS = { RW_STRIPE_SECRET_KEY: 'sk_live_k3stre1fenInv3nted', RW_STRIPE_WEBHOOK_SECRET: 'whsec_k3stre1fenInv3ntedSigning' };
 
 function refusal(env: NodeJS.ProcessEnv): string {
   try {
@@ -26,11 +27,11 @@ test('production refuses to start without RW_JWT_SECRET and RW_DB_PASSWORD, nami
 });
 
 test('production refuses the development defaults set explicitly, one variable at a time', () => {
-  const jwt = refusal({ NODE_ENV: 'production', RW_JWT_SECRET: DEV_JWT_SECRET, RW_DB_PASSWORD: REAL_DB_PASSWORD });
+  const jwt = refusal({ NODE_ENV: 'production', RW_JWT_SECRET: DEV_JWT_SECRET, RW_DB_PASSWORD: REAL_DB_PASSWORD, ...REAL_PAYMENT_KEYS });
   assert.match(jwt, /RW_JWT_SECRET/);
   assert.doesNotMatch(jwt, /RW_DB_PASSWORD/);
 
-  const db = refusal({ NODE_ENV: 'production', RW_JWT_SECRET: REAL_SECRET, RW_DB_PASSWORD: DEV_DB_PASSWORD });
+  const db = refusal({ NODE_ENV: 'production', RW_JWT_SECRET: REAL_SECRET, RW_DB_PASSWORD: DEV_DB_PASSWORD, ...REAL_PAYMENT_KEYS });
   assert.match(db, /RW_DB_PASSWORD/);
   assert.doesNotMatch(db, /RW_JWT_SECRET/);
 });
@@ -41,9 +42,15 @@ test('production refuses a short secret, as every environment does', () => {
 });
 
 test('production starts with both secrets set', () => {
-  const config = loadConfig({ NODE_ENV: 'production', RW_JWT_SECRET: REAL_SECRET, RW_DB_PASSWORD: REAL_DB_PASSWORD });
+  const config = loadConfig({ NODE_ENV: 'production', RW_JWT_SECRET: REAL_SECRET, RW_DB_PASSWORD: REAL_DB_PASSWORD, ...REAL_PAYMENT_KEYS });
   assert.equal(config.RW_JWT_SECRET, REAL_SECRET);
   assert.equal(config.RW_DB_PASSWORD, REAL_DB_PASSWORD);
+});
+
+test('production refuses the local payments fake\'s public keys', () => {
+  const message = refusal({ NODE_ENV: 'production', RW_JWT_SECRET: REAL_SECRET, RW_DB_PASSWORD: REAL_DB_PASSWORD });
+  assert.match(message, /RW_STRIPE_SECRET_KEY and RW_STRIPE_WEBHOOK_SECRET/);
+  assert.doesNotMatch(message, /RW_JWT_SECRET:/);
 });
 
 test('development and test keep working with the defaults', () => {

@@ -8,6 +8,9 @@ const bool = z
 /** Development defaults of the two secrets. Both are in the repository, so production refuses them. */
 export const DEV_JWT_SECRET = 'local-development-secret-change-me-0123456789';
 export const DEV_DB_PASSWORD = 'rigwright-local';
+/** Keys of the local payments fake (payments-fake/): the real provider is used by setting real ones. */
+export const DEV_STRIPE_SECRET_KEY = 'sk_test_rigwright_local_fake';
+export const DEV_STRIPE_WEBHOOK_SECRET = 'whsec_rigwright_local_fake_signing_secret';
 
 const schema = z.object({
   NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
@@ -65,6 +68,21 @@ const schema = z.object({
    * the move waits this long too, so an undone move sends nothing (modules/moves).
    */
   RW_UNDO_GRACE_SECONDS: z.coerce.number().int().min(1).max(300).default(10),
+  /**
+   * The payment provider, through the official SDK. Host, port and protocol point at the local fake
+   * (payments-fake/, 127.0.0.1:4310) by default; for the real provider set api.stripe.com, 443,
+   * https and the real keys. Nothing else in the app knows which one it talks to.
+   */
+  RW_STRIPE_SECRET_KEY: z.string().regex(/^(sk|rk)_(test|live)_\S+$/, 'Use a secret key like sk_test_...').default(DEV_STRIPE_SECRET_KEY),
+  RW_STRIPE_WEBHOOK_SECRET: z.string().min(16).default(DEV_STRIPE_WEBHOOK_SECRET),
+  RW_STRIPE_HOST: z.string().min(1).default('127.0.0.1'),
+  RW_STRIPE_PORT: z.coerce.number().int().min(1).max(65535).default(4310),
+  RW_STRIPE_PROTOCOL: z.enum(['http', 'https']).default('http'),
+  /** Per-request timeout of the SDK and its automatic retries (each retry reuses the idempotency key). */
+  RW_STRIPE_TIMEOUT_MS: z.coerce.number().int().min(100).max(120_000).default(15_000),
+  RW_STRIPE_MAX_RETRIES: z.coerce.number().int().min(0).max(5).default(2),
+  /** Webhook timestamps older or newer than this many seconds are refused (the provider's default: 300). */
+  RW_WEBHOOK_TOLERANCE_SECONDS: z.coerce.number().int().min(1).max(3600).default(300),
   RW_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -85,6 +103,9 @@ function productionProblems(config: Config): string[] {
   }
   if (config.RW_DB_PASSWORD === DEV_DB_PASSWORD) {
     problems.push("RW_DB_PASSWORD: set it to the database user's own password; the development default is public.");
+  }
+  if (config.RW_STRIPE_SECRET_KEY === DEV_STRIPE_SECRET_KEY || config.RW_STRIPE_WEBHOOK_SECRET === DEV_STRIPE_WEBHOOK_SECRET) {
+    problems.push('RW_STRIPE_SECRET_KEY and RW_STRIPE_WEBHOOK_SECRET: set the payment provider\'s own keys; the local fake\'s defaults are public.');
   }
   return problems;
 }

@@ -12,6 +12,7 @@ import { HandBack, initHandBackModel } from './modules/hand-back/hand-back.model
 import { Diagnosis, initDiagnosisModels, ReflashConsent } from './modules/diagnosis/diagnosis.model';
 import { initQuoteModels, Quote, QuoteLineRow } from './modules/quotes/quote.model';
 import { initOwnerLinkModel } from './modules/owner-links/owner-link.model';
+import { Charge, initPaymentModels, Payment, Refund, Waiver } from './modules/payments/payments.model';
 
 export function initModels(sequelize: Sequelize): void {
   initUserModels(sequelize);
@@ -26,6 +27,7 @@ export function initModels(sequelize: Sequelize): void {
   initDiagnosisModels(sequelize);
   initQuoteModels(sequelize);
   initOwnerLinkModel(sequelize);
+  initPaymentModels(sequelize);
 
   User.hasMany(UserRole, { as: 'roleRows', foreignKey: 'userId' });
   UserRole.belongsTo(User, { foreignKey: 'userId' });
@@ -44,4 +46,6 @@ export function initModels(sequelize: Sequelize): void {
   ReflashConsent.belongsTo(User, { as: 'recorder', foreignKey: 'recordedBy' });
   Quote.hasMany(QuoteLineRow, { as: 'lines', foreignKey: 'quoteId' });
   Quote.belongsTo(User, { as: 'author', foreignKey: 'createdBy' });
+  Waiver.belongsTo(Charge, { as: 'charge', foreignKey: 'chargeId' });
+  Refund.belongsTo(Payment, { as: 'payment', foreignKey: 'paymentId' });
 }

@@ -26,6 +26,10 @@ export const EVENT_KINDS = [
   'parts_on_order_cleared',
   'technician_assigned',
   'technician_unassigned',
+  'charge_added',
+  'charge_waived',
+  'payment_received',
+  'payment_refunded',
 ] as const;
 export type EventKind = (typeof EVENT_KINDS)[number];
 

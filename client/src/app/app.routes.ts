@@ -90,6 +90,11 @@ export const routes: Routes = [
     loadComponent: () => import('./features/bench-records/test-limits-page/test-limits-page').then((m) => m.TestLimitsPage),
   },
   {
+    path: 'treasurer',
+    canActivate: [roleGuard('treasurer')],
+    loadChildren: () => import('./features/payments/treasurer.routes').then((m) => m.TREASURER_ROUTES),
+  },
+  {
     path: 'calculators',
     title: 'Bench calculators · Rigwright',
     canActivate: [signedInGuard],

@@ -7,7 +7,7 @@ import express from 'express';
 import cookieParser from 'cookie-parser';
 import supertest from 'supertest';
 import { anonymous, concretePath, createUser, registeredRoutes, setupTestApp, signIn, tableSnapshot, type TestApp, type TestClient } from '../../../test/helpers';
-import { createCsrfToken, csrfProtection, csrfTokenValid } from './csrf';
+import { createCsrfToken, csrfExemptPaths, csrfProtection, csrfTokenValid } from './csrf';
 
 const apps: TestApp[] = [];
 after(async () => {
@@ -29,7 +29,9 @@ test('every mutating route refuses a request without a valid anti-forgery token,
   apps.push(t);
   await createUser(t.sequelize, ADMIN);
   const member = await createUser(t.sequelize, MEMBER);
-  const routes = registeredRoutes(t.app).filter((r) => r.method !== 'GET');
+  // Signed webhooks are exempt (csrfExemptPaths); they are checked below for their own signature instead.
+  const routes = registeredRoutes(t.app).filter((r) => r.method !== 'GET' && !csrfExemptPaths.has(r.path.replace(/^\/api/, '')));
+  assert.ok(csrfExemptPaths.has('/payments/webhook'), 'the payment webhook is the exempt path');
   // The sweep must see at least the auth, accounts and tickets routes.
   for (const expected of [
     'POST /api/auth/sign-in',
@@ -50,6 +52,11 @@ test('every mutating route refuses a request without a valid anti-forgery token,
     'POST /api/tickets/:tag/moves/:eventId/undo',
     'POST /api/tickets/:tag/parts-on-order',
     'POST /api/tickets/:tag/technician',
+    'POST /api/tickets/:tag/ledger/charges',
+    'POST /api/tickets/:tag/ledger/checkout',
+    'POST /api/charges/:chargeId/waivers',
+    'POST /api/payments/:paymentId/refunds',
+    'POST /api/reconciliation/:month/close',
   ]) {
     assert.ok(routes.some((r) => `${r.method} ${r.path}` === expected), `sweep covers ${expected}`);
   }
@@ -74,6 +81,10 @@ test('every mutating route refuses a request without a valid anti-forgery token,
       assert.equal(res.body.error.code, 'csrf_token_invalid', `${route.method} ${url}: ${name}`);
     }
   }
+  // The exempt webhook without a valid signature is refused too (400), and changes nothing.
+  const hook = await send(anon, 'POST', '/api/payments/webhook', {});
+  assert.equal(hook.status, 400, hook.text);
+  assert.equal(hook.body.error.code, 'webhook_signature_invalid');
   assert.deepEqual(await tableSnapshot(t.sequelize), before, 'no table changed');
 
   // Control: with the header the same client gets through (here: sign-out ends the session).

@@ -23,6 +23,7 @@ import { hasReturnedItemsChecked } from '../hand-back/hand-back-facts';
 import { statusLinkFor } from '../owner-links/owner-link-tokens';
 import { latestLaneEvent, previousStateOf, undoOfferOf } from '../moves/move-history';
 import { queueMoveMail } from '../moves/move-mail';
+import { balanceSettledOf } from '../payments/ledger.service';
 import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
 
 export type TicketsDeps = Pick<AppDeps, 'sequelize' | 'config' | 'clock'>;
@@ -55,11 +56,12 @@ export type RecordedFacts = Pick<
 >;
 
 export async function recordedFactsOf(sequelize: Sequelize, ticketId: number, transaction?: Transaction): Promise<RecordedFacts> {
-  const [verifiedFlash, sheets, handedBack, previousState] = await Promise.all([
+  const [verifiedFlash, sheets, handedBack, previousState, settled] = await Promise.all([
     hasVerifiedFlash(sequelize, ticketId, transaction),
     testSheetFacts(ticketId, transaction),
     hasReturnedItemsChecked(ticketId, transaction),
     previousStateOf(ticketId, transaction),
+    balanceSettledOf(sequelize, ticketId, transaction),
   ]);
   return {
     previousState,
@@ -67,7 +69,7 @@ export async function recordedFactsOf(sequelize: Sequelize, ticketId: number, tr
     hasPassedTestSheet: sheets.hasPassedTestSheet,
     hasFailedTestSheet: sheets.hasFailedTestSheet,
     returnedItemsChecked: handedBack,
-    balanceSettled: false,
+    balanceSettled: settled,
   };
 }
 

@@ -29,6 +29,8 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/bookings', label: 'Bench slots', icon: 'event_available', roles: [] },
   { path: '/firmware', label: 'Firmware library', icon: 'memory', roles: ['technician', 'admin'] },
   { path: '/flasher', label: 'Flasher', icon: 'developer_board', roles: ['technician', 'admin'] },
+  { path: '/treasurer/month', label: 'Reconciliation', icon: 'account_balance', roles: ['treasurer'] },
+  { path: '/treasurer/fees', label: 'Fee schedule', icon: 'sell', roles: ['treasurer'] },
   { path: '/calculators', label: 'Bench calculators', icon: 'calculate', roles: [] },
   { path: '/admin/accounts', label: 'Accounts', icon: 'manage_accounts', roles: ['admin'] },
   { path: '/admin/benches', label: 'Benches and sessions', icon: 'table_restaurant', roles: ['admin'] },

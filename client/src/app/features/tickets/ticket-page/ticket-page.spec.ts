@@ -90,6 +90,11 @@ describe('TicketPage', () => {
     http.expectOne('/api/tickets/RW-0007').flush(ticket);
     await flushSections();
     await fixture.whenStable();
+    // The fees section (features/payments) loads the ticket's ledger, and for the bench the fee schedule.
+    const empty = { currency: 'GBP', charges: [], payments: [], totals: { charges: 0, waivers: 0, payments: 0, refunds: 0 }, balance: 0, settled: true };
+    for (const req of http.match((r) => r.url === '/api/tickets/RW-0007/ledger')) req.flush(empty);
+    for (const req of http.match((r) => r.url === '/api/fees')) req.flush({ currency: 'GBP', today: '2026-12-02', items: [] });
+    await fixture.whenStable();
   }
 
   /** The bench-record sections on the page (diagnosis, quote, notes) load their own data; answer them empty. */

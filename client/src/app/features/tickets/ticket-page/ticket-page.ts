@@ -24,6 +24,7 @@ import { NotesSection } from '../../owner-records/notes-section/notes-section';
 import { QuoteSection } from '../../owner-records/quote-section/quote-section';
 import { MovesApi, undoWindowMs } from '../../moves/moves-api';
 import { TicketBench } from '../../moves/ticket-bench/ticket-bench';
+import { TicketLedger } from '../../payments/ticket-ledger/ticket-ledger';
 import { TicketApi } from '../ticket-api';
 import { TicketDetail, MoveOption } from '../ticket.models';
 
@@ -43,6 +44,7 @@ import { TicketDetail, MoveOption } from '../ticket.models';
     NotesSection,
     QuoteSection,
     TicketBench,
+    TicketLedger,
     MatCardModule,
     MatButtonModule,
     MatIconModule,
