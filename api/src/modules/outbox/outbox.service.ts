@@ -19,16 +19,16 @@ export interface MailToQueue extends MailContent {
   sendAfter?: Date | null;
   /** One file sent with the mail (e.g. a test report PDF), stored in the outbox row. */
   attachment?: MailAttachment | null;
+  /** Pending mails with the same key replace each other (see modules/moves/move-mail.ts). */
+  coalesceKey?: string | null;
+  /** What the recipient was last told before this mail, for the next mail with the same key. */
+  coalesceBase?: string | null;
 }
 
 export interface MailAttachment {
   name: string;
   contentType: string;
   content: Buffer;
-  /** Pending mails with the same key replace each other (see modules/moves/move-mail.ts). */
-  coalesceKey?: string | null;
-  /** What the recipient was last told before this mail, for the next mail with the same key. */
-  coalesceBase?: string | null;
 }
 
 /** Writes one pending outbox row in `transaction`, due at `now` (the caller's clock), and returns its id. */
