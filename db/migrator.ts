@@ -8,6 +8,7 @@ import * as m004 from './migrations/004-club-name';
 import * as m010 from './migrations/010-firmware';
 import * as m020 from './migrations/020-bench-slots';
 import * as m025 from './migrations/025-ticket-events-open';
+import * as m030 from './migrations/030-intake-complete';
 
 type Step = { up(qi: QueryInterface): Promise<void>; down(qi: QueryInterface): Promise<void> };
 const MIGRATIONS: [string, Step][] = [
@@ -17,6 +18,7 @@ const MIGRATIONS: [string, Step][] = [
   ['010-firmware', m010],
   ['020-bench-slots', m020],
   ['025-ticket-events-open', m025],
+  ['030-intake-complete', m030],
 ];
 
 export function createMigrator(sequelize: Sequelize, log = false) {

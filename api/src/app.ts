@@ -23,6 +23,8 @@ import { createFirmwareRouter } from './modules/firmware/firmware.router';
 import { createFlashAttemptsRouter } from './modules/firmware/flash-attempts.router';
 import { createBenchesRouter } from './modules/benches/benches.router';
 import { createBookingsRouter } from './modules/bookings/bookings.router';
+import { createIntakeRouter } from './modules/intake/intake.router';
+import { createPhotosRouter } from './modules/intake/photos.router';
 
 export function createApp(init: AppDepsInit): express.Express {
   const deps = appDeps(init);
@@ -84,6 +86,8 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use('/api/auth', createAuthRouter(deps));
   app.use('/api/users', createUsersRouter(deps));
   app.use('/api/tickets/:tag/flash-attempts', createFlashAttemptsRouter(deps));
+  app.use('/api/tickets/:tag/photos', createPhotosRouter(deps));
+  app.use('/api/tickets', createIntakeRouter(deps));
   app.use('/api/tickets', createTicketsRouter(deps));
   app.use('/api/board', createBoardRouter(deps));
   app.use('/api/calc', requireSignedIn, calcRouter);

@@ -58,6 +58,8 @@ const schema = z.object({
   RW_FIRMWARE_MAX_BYTES: z.coerce.number().int().min(1024).max(1024 * 1024 * 1024).default(16 * 1024 * 1024),
   /** Largest serial log accepted with a flash attempt (bytes; 256 KiB by default). */
   RW_SERIAL_LOG_MAX_BYTES: z.coerce.number().int().min(1024).max(8 * 1024 * 1024).default(256 * 1024),
+  /** Largest ticket photo accepted (bytes; 10 MiB by default: a phone camera's JPEG fits). */
+  RW_PHOTO_MAX_BYTES: z.coerce.number().int().min(1024).max(64 * 1024 * 1024).default(10 * 1024 * 1024),
   RW_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

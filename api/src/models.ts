@@ -6,6 +6,7 @@ import { initOutboxModel } from './modules/outbox/outbox.model';
 import { initClubSettingsModel } from './modules/club/club-settings.model';
 import { initBenchModels } from './modules/benches/bench.model';
 import { initBookingModels } from './modules/bookings/booking.model';
+import { initPhotoModel, Photo } from './modules/intake/photo.model';
 
 export function initModels(sequelize: Sequelize): void {
   initUserModels(sequelize);
@@ -14,6 +15,7 @@ export function initModels(sequelize: Sequelize): void {
   initClubSettingsModel(sequelize);
   initBenchModels(sequelize);
   initBookingModels(sequelize);
+  initPhotoModel(sequelize);
 
   User.hasMany(UserRole, { as: 'roleRows', foreignKey: 'userId' });
   UserRole.belongsTo(User, { foreignKey: 'userId' });
@@ -24,4 +26,5 @@ export function initModels(sequelize: Sequelize): void {
   Ticket.hasMany(TicketEvent, { as: 'events', foreignKey: 'ticketId' });
   TicketEvent.belongsTo(Ticket, { foreignKey: 'ticketId' });
   TicketEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId' });
+  Photo.belongsTo(User, { as: 'uploader', foreignKey: 'uploadedBy' });
 }
