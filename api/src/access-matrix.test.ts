@@ -31,6 +31,12 @@ const ACCESS: Record<string, Actor[]> = {
   'GET /api/tickets': SIGNED_IN,
   'GET /api/tickets/:tag': ['owner', 'technician', 'treasurer', 'admin'],
   'POST /api/tickets/:tag/moves': ['technician', 'admin'],
+  'GET /api/tickets/owners': BENCH,
+  'PATCH /api/tickets/:tag/intake': BENCH,
+  'GET /api/tickets/:tag/intake-tag.pdf': ['owner', 'technician', 'treasurer', 'admin'],
+  'POST /api/tickets/:tag/photos': ['owner', 'technician', 'admin'], // the owner at intake only
+  'GET /api/tickets/:tag/photos': ['owner', 'technician', 'treasurer', 'admin'],
+  'GET /api/tickets/:tag/photos/:photoId': ['owner', 'technician', 'treasurer', 'admin'],
   'GET /api/board': ['technician', 'admin'],
   'GET /api/board/events': ['technician', 'admin'],
   'GET /api/calc/xmodem': SIGNED_IN,
@@ -74,6 +80,11 @@ const ACCESS: Record<string, Actor[]> = {
   'POST /api/bookings/:bookingId/no-show': ['technician', 'admin'],
 };
 
+/** Writes open to a ticket's owner: another member's ticket answers 404 there (roles without the route still 403). */
+const OWNER_WRITES = new Set(['POST /api/tickets/:tag/photos']);
+/** Routes on a ticket still at intake (the owner may add photos only then). */
+const ON_INTAKE_TICKET = (path: string) => path.includes('/photos') || path.endsWith('/intake');
+
 /** Routes where someone else's object answers 404 (it is not theirs to know about), not 403. */
 const NOT_YOURS = new Set(['GET /api/bookings/:bookingId', 'PATCH /api/bookings/:bookingId', 'POST /api/bookings/:bookingId/cancel']);
 
@@ -88,6 +99,8 @@ const ACCOUNTS: Record<Exclude<Actor, 'anonymous'>, Role[]> = {
 
 let t: TestApp;
 let ticketTag = '';
+let intakeTag = '';
+let photoId = 0;
 let otherMemberId = 0;
 let firmwareId = 0;
 let bench = { benchId: 0, ruleId: 0, bookingId: 0 };
@@ -136,6 +149,22 @@ before(async () => {
     .field('outcome', 'transfer_completed')
     .attach('serialLog', Buffer.from('Erase OK\nTransfer complete\n'), 'log.txt');
   assert.equal(attempt.status, 201, attempt.text);
+  // A second ticket of the owner's, still at intake, with a photo: the intake and photo routes use it.
+  const atIntake = await owner.post('/api/tickets', {
+    equipmentKind: 'tuner',
+    makeModel: 'Matrix test tuner',
+    units: [],
+    faultReported: 'Relay stuck on one band.',
+    accessories: [],
+    reflashConsent: false,
+    updatesBy: 'none',
+  });
+  assert.equal(atIntake.status, 201, atIntake.text);
+  intakeTag = atIntake.body.tag;
+  const png = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAIAAACQd1PeAAAADElEQVR4nGNgYGAAAAAEAAH2FzhVAAAAAElFTkSuQmCC', 'base64');
+  const photo = await tech.post(`/api/tickets/${intakeTag}/photos`).field('stage', 'intake').attach('photo', png, 'matrix.png');
+  assert.equal(photo.status, 201, photo.text);
+  photoId = photo.body.id;
   const fixture = await benchWithSession();
   const ownerId = (await t.sequelize.query<{ id: number }>("SELECT id FROM users WHERE email = 'owner@matrix.example'", { type: QueryTypes.SELECT }))[0]!.id;
   const booking = await insertBooking(t.sequelize, { benchId: fixture.bench.id, userId: ownerId, start: fixture.at('19:00') });
@@ -152,7 +181,8 @@ async function client(actor: Actor): Promise<TestClient> {
 function urlFor(path: string): string {
   const id = path.startsWith('/api/firmware/') ? firmwareId : otherMemberId;
   return path
-    .replace(':tag', ticketTag)
+    .replace(':tag', ON_INTAKE_TICKET(path) ? intakeTag : ticketTag)
+    .replace(':photoId', String(photoId))
     .replace(':id', String(id))
     .replace(':number', '1')
     .replace(':benchId', String(bench.benchId))
@@ -197,7 +227,7 @@ for (const [route, allowed] of Object.entries(ACCESS)) {
         const expected =
           actor === 'anonymous'
             ? [401]
-            : NOT_YOURS.has(route)
+            : NOT_YOURS.has(route) || (OWNER_WRITES.has(route) && actor === 'otherMember')
               ? [404]
               : path.includes(':tag') && method === 'GET'
                 ? allowed === BENCH

@@ -31,7 +31,7 @@ test('every mutating route refuses a request without a valid anti-forgery token,
   const member = await createUser(t.sequelize, MEMBER);
   const routes = registeredRoutes(t.app).filter((r) => r.method !== 'GET');
   // The sweep must see at least the auth, accounts and tickets routes.
-  for (const expected of ['POST /api/auth/sign-in', 'POST /api/auth/sign-out', 'POST /api/auth/password', 'POST /api/users', 'PATCH /api/users/:id', 'POST /api/tickets', 'POST /api/firmware', 'POST /api/firmware/:id/known-good', 'POST /api/firmware/:id/withdraw', 'POST /api/tickets/:tag/flash-attempts']) {
+  for (const expected of ['POST /api/auth/sign-in', 'POST /api/auth/sign-out', 'POST /api/auth/password', 'POST /api/users', 'PATCH /api/users/:id', 'POST /api/tickets', 'POST /api/firmware', 'POST /api/firmware/:id/known-good', 'POST /api/firmware/:id/withdraw', 'POST /api/tickets/:tag/flash-attempts', 'PATCH /api/tickets/:tag/intake', 'POST /api/tickets/:tag/photos']) {
     assert.ok(routes.some((r) => `${r.method} ${r.path}` === expected), `sweep covers ${expected}`);
   }
 
