@@ -18,6 +18,7 @@ import { Caution } from '../../../shared/caution/caution';
 import { equipmentKindLabel, stateLabel } from '../../../shared/labels';
 import { StateChip } from '../../../shared/state-chip/state-chip';
 import { FlashAttempts } from '../../firmware/flash-attempts/flash-attempts';
+import { IntakeDetails } from '../intake-details/intake-details';
 import { TicketApi } from '../ticket-api';
 import { TicketDetail, MoveOption } from '../ticket.models';
 
@@ -32,6 +33,7 @@ import { TicketDetail, MoveOption } from '../ticket.models';
     StateChip,
     Caution,
     FlashAttempts,
+    IntakeDetails,
     MatCardModule,
     MatButtonModule,
     MatIconModule,
