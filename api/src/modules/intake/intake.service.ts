@@ -45,7 +45,6 @@ export async function searchOwners(user: SessionUser, q: string | undefined): Pr
 }
 
 const quote = (v: string | null | undefined) => (v ? `“${v}”` : 'nothing');
-const listOf = (v: string[]) => (v.length ? v.join(', ') : 'none');
 
 /** "Accessories: added Microphone; removed Manual" style wording for a list that changed. */
 function listChange(label: string, before: string[], after: string[]): string | null {
