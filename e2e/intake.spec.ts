@@ -11,17 +11,17 @@ test('a technician hands in a radio for a walk-in owner, with a photo, and print
   await signIn(page, DEMO.technician);
   await page.goto('/hand-in');
   await expect(page.getByRole('heading', { name: /hand in equipment/i })).toBeVisible();
-  const next = () => page.getByRole('button', { name: 'Next', exact: true }).click();
+  const next = (step: string) => page.getByTestId(`next-${step}`).click();
 
   // Owner: someone at the bench, with a name and at least one of e-mail or phone.
   await page.getByRole('radio', { name: 'Someone at the bench' }).check();
   await page.getByLabel("Owner's name").fill('Edmund Rushby');
-  await next();
+  await next('owner');
   await expect(page.getByText('Give an e-mail address or a phone number, so the bench can reach the owner.')).toBeVisible();
   await page.getByLabel('E-mail', { exact: true }).fill(ownerEmail);
   await page.getByLabel('Phone', { exact: true }).fill('01632 960417');
   await page.getByLabel('Call sign, if any').fill('Q4ERB');
-  await next();
+  await next('owner');
 
   // Equipment.
   await page.getByLabel('Kind of equipment').click();
@@ -29,24 +29,24 @@ test('a technician hands in a radio for a walk-in owner, with a photo, and print
   await page.getByLabel('Make and model').fill(`Fenwick Heron 100 (${run})`);
   await page.getByLabel('Serial number').fill('FH100-20931');
   await page.getByLabel('Firmware versions, if known').fill('main 1.04, display 2.11');
-  await next();
+  await next('equipment');
 
   // Fault: symptoms to tick and the owner's words.
   await page.getByRole('checkbox', { name: 'Relay clicks, no display' }).check();
   await page.getByLabel("The fault in the owner's words").fill('Relay clicks at power-on; the display stays dark since a power cut.');
-  await next();
+  await next('fault');
 
   // Accessories handed in.
   await page.getByRole('checkbox', { name: 'Power lead' }).check();
   await page.getByRole('checkbox', { name: 'Microphone' }).check();
   await page.getByLabel('Anything else, and its condition').fill('Mic cord taped near the plug.');
-  await next();
+  await next('handedIn');
 
   // Reflash consent beside its caution, and how the owner wants updates.
   await expect(page.getByRole('note', { name: /a reflash can erase/i })).toBeVisible();
   await page.getByRole('checkbox', { name: /agrees to a reflash/i }).check();
   await page.getByRole('radio', { name: 'By e-mail' }).check();
-  await next();
+  await next('consent');
 
   await expect(page.getByText('Edmund Rushby · ' + ownerEmail + ' · 01632 960417')).toBeVisible();
   await page.screenshot({ path: `${SCREENSHOTS}/intake-check.png`, fullPage: true });

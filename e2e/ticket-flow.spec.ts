@@ -10,21 +10,21 @@ test('hand in equipment, move it on the Bench board, owner is e-mailed', async (
   await expect(memberPage.getByRole('heading', { name: /hand in equipment/i })).toBeVisible();
 
   const model = `Fenwick Heron 90 test ${Date.now().toString(36)}`;
-  const next = () => memberPage.getByRole('button', { name: 'Next', exact: true }).click();
-  await next(); // the owner: the member handing it in
+  const next = (step: string) => memberPage.getByTestId(`next-${step}`).click();
+  await next('owner'); // the owner: the member handing it in
   await memberPage.getByLabel('Kind of equipment').click();
   await memberPage.getByRole('option', { name: /transceiver/i }).click();
   await memberPage.getByLabel('Make and model').fill(model);
   await memberPage.getByLabel('Serial number').fill('QX-40417');
-  await next();
+  await next('equipment');
   await memberPage.getByRole('checkbox', { name: 'Relay clicks, no display' }).check();
   await memberPage.getByLabel(/fault in the owner's words/i).fill('Relay clicks at power-on but the display stays dark.');
-  await next();
+  await next('fault');
   await memberPage.getByRole('checkbox', { name: /control cable/i }).check();
-  await next();
+  await next('handedIn');
   await memberPage.getByRole('checkbox', { name: /agrees to a reflash/i }).check();
   await memberPage.getByRole('radio', { name: 'By e-mail' }).check();
-  await next();
+  await next('consent');
   await memberPage.screenshot({ path: `${SCREENSHOTS}/intake-form.png`, fullPage: true });
   await memberPage.getByRole('button', { name: /hand in and open a ticket/i }).click();
 
