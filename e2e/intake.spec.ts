@@ -6,6 +6,8 @@ import sharp from 'sharp';
 import { DEMO, SCREENSHOTS, signIn, waitForMail } from './support';
 
 test('a technician hands in a radio for a walk-in owner, with a photo, and prints the intake tag', async ({ page }) => {
+  // Six steps, an upload, a PDF and a mail: more than the default minute on a busy 2-core machine.
+  test.setTimeout(180_000);
   const run = Date.now().toString(36);
   const ownerEmail = `walk-in-${run}@fenmail.example`;
   await signIn(page, DEMO.technician);
@@ -76,7 +78,7 @@ test('a technician hands in a radio for a walk-in owner, with a photo, and print
 
   // The ticket page shows the intake section, its photo and the print link.
   await page.goto(`/tickets/${tag}`);
-  await expect(page.getByText('Relay clicks, no display', { exact: true })).toBeVisible();
+  await expect(page.getByText('Relay clicks, no display', { exact: true })).toBeVisible({ timeout: 30_000 });
   await expect(page.getByRole('img', { name: 'front-panel.png' })).toBeVisible();
   await page.screenshot({ path: `${SCREENSHOTS}/ticket-intake-section.png`, fullPage: true });
 });

@@ -4,6 +4,8 @@ import { expect, test } from '@playwright/test';
 import { DEMO, SCREENSHOTS, dragTo, signIn, waitForMail } from './support';
 
 test('hand in equipment, move it on the Bench board, owner is e-mailed', async ({ browser }) => {
+  // The intake is a six-step stepper now: more than the default minute on a busy 2-core machine.
+  test.setTimeout(180_000);
   const memberPage = await (await browser.newContext()).newPage();
   await signIn(memberPage, DEMO.member);
   await memberPage.goto('/hand-in');

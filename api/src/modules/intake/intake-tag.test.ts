@@ -41,10 +41,11 @@ before(async () => {
 after(() => t.close());
 
 /** Reads a whole binary answer as a Buffer (supertest leaves application/pdf unparsed otherwise). */
-function binary(res: NodeJS.ReadableStream & { setEncoding?: unknown }, done: (err: Error | null, body: Buffer) => void) {
+function binary(res: unknown, done: (err: Error | null, body: Buffer) => void) {
+  const stream = res as NodeJS.ReadableStream;
   const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(c));
-  res.on('end', () => done(null, Buffer.concat(chunks)));
+  stream.on('data', (c: Buffer) => chunks.push(c));
+  stream.on('end', () => done(null, Buffer.concat(chunks)));
 }
 
 async function readPdf(bytes: Buffer) {
