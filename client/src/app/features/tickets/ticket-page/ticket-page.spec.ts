@@ -75,6 +75,12 @@ describe('TicketPage', () => {
     root = fixture.nativeElement;
     fixture.detectChanges();
     http.expectOne('/api/tickets/RW-0007').flush(detail());
+    // The intake section's photo gallery asks for its list once the ticket is shown.
+    for (let i = 0; i < 3; i++) {
+      await new Promise((r) => setTimeout(r));
+      fixture.detectChanges();
+    }
+    http.expectOne('/api/tickets/RW-0007/photos?stage=intake').flush({ items: [] });
     await fixture.whenStable();
   }
 
