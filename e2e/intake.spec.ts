@@ -81,4 +81,8 @@ test('a technician hands in a radio for a walk-in owner, with a photo, and print
   await expect(page.getByText('Relay clicks, no display', { exact: true })).toBeVisible({ timeout: 30_000 });
   await expect(page.getByRole('img', { name: 'front-panel.png' })).toBeVisible();
   await page.screenshot({ path: `${SCREENSHOTS}/ticket-intake-section.png`, fullPage: true });
+
+  // Take it on to Diagnosis, so the Intake lane stays as short as the other browser tests expect.
+  await page.getByRole('button', { name: 'Move to Diagnosis' }).click();
+  await expect(page.locator('.timeline')).toContainText(/moved it\s+from Intake\s+to Diagnosis/, { timeout: 30_000 });
 });
