@@ -8,6 +8,7 @@ import * as m004 from './migrations/004-club-name';
 import * as m010 from './migrations/010-firmware';
 import * as m020 from './migrations/020-bench-slots';
 import * as m025 from './migrations/025-ticket-events-open';
+import * as m030 from './migrations/030-intake-complete';
 import * as m035 from './migrations/035-diagnosis-quotes-owner-links';
 import * as m050 from './migrations/050-bench-records';
 import * as m055 from './migrations/055-move-undo-and-mail-grace';
@@ -21,6 +22,7 @@ const MIGRATIONS: [string, Step][] = [
   ['010-firmware', m010],
   ['020-bench-slots', m020],
   ['025-ticket-events-open', m025],
+  ['030-intake-complete', m030],
   ['035-diagnosis-quotes-owner-links', m035],
   ['050-bench-records', m050],
   ['055-move-undo-and-mail-grace', m055],

@@ -4,19 +4,29 @@ import { expect, test } from '@playwright/test';
 import { DEMO, SCREENSHOTS, dragTo, signIn, waitForMail } from './support';
 
 test('hand in equipment, move it on the Bench board, owner is e-mailed', async ({ browser }) => {
+  // The intake is a six-step stepper now: more than the default minute on a busy 2-core machine.
+  test.setTimeout(180_000);
   const memberPage = await (await browser.newContext()).newPage();
   await signIn(memberPage, DEMO.member);
   await memberPage.goto('/hand-in');
   await expect(memberPage.getByRole('heading', { name: /hand in equipment/i })).toBeVisible();
 
   const model = `Fenwick Heron 90 test ${Date.now().toString(36)}`;
+  const next = (step: string) => memberPage.getByTestId(`next-${step}`).click();
+  await next('owner'); // the owner: the member handing it in
   await memberPage.getByLabel('Kind of equipment').click();
   await memberPage.getByRole('option', { name: /transceiver/i }).click();
   await memberPage.getByLabel('Make and model').fill(model);
   await memberPage.getByLabel('Serial number').fill('QX-40417');
-  await memberPage.getByLabel(/fault as reported/i).fill('Relay clicks at power-on but the display stays dark.');
+  await next('equipment');
+  await memberPage.getByRole('checkbox', { name: 'Relay clicks, no display' }).check();
+  await memberPage.getByLabel(/fault in the owner's words/i).fill('Relay clicks at power-on but the display stays dark.');
+  await next('fault');
   await memberPage.getByRole('checkbox', { name: /control cable/i }).check();
-  await memberPage.getByRole('checkbox', { name: /agree to a reflash/i }).check();
+  await next('handedIn');
+  await memberPage.getByRole('checkbox', { name: /agrees to a reflash/i }).check();
+  await memberPage.getByRole('radio', { name: 'By e-mail' }).check();
+  await next('consent');
   await memberPage.screenshot({ path: `${SCREENSHOTS}/intake-form.png`, fullPage: true });
   await memberPage.getByRole('button', { name: /hand in and open a ticket/i }).click();
 

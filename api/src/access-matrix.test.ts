@@ -37,6 +37,12 @@ const ACCESS: Record<string, Actor[]> = {
   'POST /api/tickets/:tag/parts-on-order': ['technician', 'admin'],
   'POST /api/tickets/:tag/technician': ['technician', 'admin'],
   'GET /api/technicians': ['technician', 'admin'],
+  'GET /api/tickets/owners': BENCH,
+  'PATCH /api/tickets/:tag/intake': BENCH,
+  'GET /api/tickets/:tag/intake-tag.pdf': ['owner', 'technician', 'treasurer', 'admin'],
+  'POST /api/tickets/:tag/photos': ['owner', 'technician', 'admin'], // the owner at intake only
+  'GET /api/tickets/:tag/photos': ['owner', 'technician', 'treasurer', 'admin'],
+  'GET /api/tickets/:tag/photos/:photoId': ['owner', 'technician', 'treasurer', 'admin'],
   'GET /api/board': ['technician', 'admin'],
   'GET /api/board/events': ['technician', 'admin'],
   'GET /api/calc/xmodem': SIGNED_IN,
@@ -123,6 +129,11 @@ const ACCESS: Record<string, Actor[]> = {
   'POST /api/reconciliation/:month/close': ['treasurer'],
 };
 
+/** Writes open to a ticket's owner: another member's ticket answers 404 there (roles without the route still 403). */
+const OWNER_WRITES = new Set(['POST /api/tickets/:tag/photos']);
+/** Routes on a ticket still at intake (the owner may add photos only then). */
+const ON_INTAKE_TICKET = (path: string) => path.includes('/photos') || path.endsWith('/intake');
+
 /** Routes where someone else's object answers 404 (it is not theirs to know about), not 403. */
 const NOT_YOURS = new Set([
   'GET /api/bookings/:bookingId',
@@ -145,6 +156,8 @@ const ACCOUNTS: Record<Exclude<Actor, 'anonymous'>, Role[]> = {
 
 let t: TestApp;
 let ticketTag = '';
+let intakeTag = '';
+let photoId = 0;
 let otherMemberId = 0;
 let firmwareId = 0;
 let bench = { benchId: 0, ruleId: 0, bookingId: 0 };
@@ -222,6 +235,22 @@ before(async () => {
   assert.equal(sheet.status, 201, sheet.text);
   sheetId = sheet.body.sheet.id;
   sheetTag = second.body.tag;
+  // A second ticket of the owner's, still at intake, with a photo: the intake and photo routes use it.
+  const atIntake = await owner.post('/api/tickets', {
+    equipmentKind: 'tuner',
+    makeModel: 'Matrix test tuner',
+    units: [],
+    faultReported: 'Relay stuck on one band.',
+    accessories: [],
+    reflashConsent: false,
+    updatesBy: 'none',
+  });
+  assert.equal(atIntake.status, 201, atIntake.text);
+  intakeTag = atIntake.body.tag;
+  const png = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAIAAACQd1PeAAAADElEQVR4nGNgYGAAAAAEAAH2FzhVAAAAAElFTkSuQmCC', 'base64');
+  const photo = await tech.post(`/api/tickets/${intakeTag}/photos`).field('stage', 'intake').attach('photo', png, 'matrix.png');
+  assert.equal(photo.status, 201, photo.text);
+  photoId = photo.body.id;
   const fixture = await benchWithSession();
   const ownerId = (await t.sequelize.query<{ id: number }>("SELECT id FROM users WHERE email = 'owner@matrix.example'", { type: QueryTypes.SELECT }))[0]!.id;
   const booking = await insertBooking(t.sequelize, { benchId: fixture.bench.id, userId: ownerId, start: fixture.at('19:00') });
@@ -255,10 +284,10 @@ async function client(actor: Actor): Promise<TestClient> {
 function urlFor(path: string): string {
   const id = path.startsWith('/api/firmware/') ? firmwareId : otherMemberId;
   return path
-    .replace(':tag', path.includes(':sheetId') ? sheetTag : ticketTag)
+    .replace(':tag', path.includes(':sheetId') ? sheetTag : ON_INTAKE_TICKET(path) ? intakeTag : ticketTag)
     .replace(':sheetId', String(sheetId))
     .replace(':token', path.includes('/approval/') ? ownerTokens.approve : ownerTokens.status)
-    .replace(':tag', ticketTag)
+    .replace(':photoId', String(photoId))
     .replace(':id', String(id))
     .replace(':number', '1')
     .replace(':eventId', '1')
@@ -310,7 +339,7 @@ for (const [route, allowed] of Object.entries(ACCESS)) {
         const expected =
           actor === 'anonymous'
             ? [401]
-            : NOT_YOURS.has(route)
+            : NOT_YOURS.has(route) || (OWNER_WRITES.has(route) && actor === 'otherMember')
               ? [404]
               : ROLE_THEN_OWNER.has(route)
                 ? [403, 404]

@@ -32,6 +32,8 @@ import { createQuoteSettingsRouter, createQuotesRouter } from './modules/quotes/
 import { createOwnerLinksRouter } from './modules/owner-links/owner-links.router';
 import { createTechniciansRouter, createTicketMovesRouter } from './modules/moves/moves.router';
 import { createBookingChargesRouter, createChargesRouter, createFeesRouter, createPaymentsRouter, createReconciliationRouter, createTicketLedgerRouter, WEBHOOK_PATH } from './modules/payments/payments.router';
+import { createIntakeRouter } from './modules/intake/intake.router';
+import { createPhotosRouter } from './modules/intake/photos.router';
 
 export function createApp(init: AppDepsInit): express.Express {
   const deps = appDeps(init);
@@ -105,6 +107,8 @@ export function createApp(init: AppDepsInit): express.Express {
   app.use('/api/tickets/:tag', createTicketMovesRouter(deps));
   app.use('/api/technicians', createTechniciansRouter());
   app.use('/api/tickets/:tag/ledger', createTicketLedgerRouter(deps));
+  app.use('/api/tickets/:tag/photos', createPhotosRouter(deps));
+  app.use('/api/tickets', createIntakeRouter(deps));
   app.use('/api/tickets', createTicketsRouter(deps));
   app.use('/api/club/quote-settings', createQuoteSettingsRouter(deps));
   app.use('/api/owner', createOwnerLinksRouter(deps));

@@ -83,6 +83,8 @@ const schema = z.object({
   RW_STRIPE_MAX_RETRIES: z.coerce.number().int().min(0).max(5).default(2),
   /** Webhook timestamps older or newer than this many seconds are refused (the provider's default: 300). */
   RW_WEBHOOK_TOLERANCE_SECONDS: z.coerce.number().int().min(1).max(3600).default(300),
+  /** Largest ticket photo accepted (bytes; 10 MiB by default: a phone camera's JPEG fits). */
+  RW_PHOTO_MAX_BYTES: z.coerce.number().int().min(1024).max(64 * 1024 * 1024).default(10 * 1024 * 1024),
   RW_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

@@ -51,7 +51,7 @@ after(async () => {
 
 /** Below 500 and, for an error, exactly { error: { code, message[, fields] } } with strings. */
 function assertClientAnswer(res: Response, label: string): void {
-  assert.ok(res.status < 500, `${label}: answered ${res.status} ${res.text.slice(0, 300)}`);
+  assert.ok(res.status < 500, `${label}: answered ${res.status} ${String(res.text ?? "").slice(0, 300)}`);
   if (res.status >= 400) {
     assert.match(String(res.headers['content-type']), /^application\/json/, `${label}: JSON error`);
     assert.deepEqual(Object.keys(res.body), ['error'], label);

@@ -13,6 +13,7 @@ import { Diagnosis, initDiagnosisModels, ReflashConsent } from './modules/diagno
 import { initQuoteModels, Quote, QuoteLineRow } from './modules/quotes/quote.model';
 import { initOwnerLinkModel } from './modules/owner-links/owner-link.model';
 import { Charge, initPaymentModels, Payment, Refund, Waiver } from './modules/payments/payments.model';
+import { initPhotoModel, Photo } from './modules/intake/photo.model';
 
 export function initModels(sequelize: Sequelize): void {
   initUserModels(sequelize);
@@ -28,6 +29,7 @@ export function initModels(sequelize: Sequelize): void {
   initQuoteModels(sequelize);
   initOwnerLinkModel(sequelize);
   initPaymentModels(sequelize);
+  initPhotoModel(sequelize);
 
   User.hasMany(UserRole, { as: 'roleRows', foreignKey: 'userId' });
   UserRole.belongsTo(User, { foreignKey: 'userId' });
@@ -48,4 +50,5 @@ export function initModels(sequelize: Sequelize): void {
   Quote.belongsTo(User, { as: 'author', foreignKey: 'createdBy' });
   Waiver.belongsTo(Charge, { as: 'charge', foreignKey: 'chargeId' });
   Refund.belongsTo(Payment, { as: 'payment', foreignKey: 'paymentId' });
+  Photo.belongsTo(User, { as: 'uploader', foreignKey: 'uploadedBy' });
 }

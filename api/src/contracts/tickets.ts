@@ -5,6 +5,38 @@ import type { TicketState } from '../domain/workflow';
 /** `equipmentKind` of the intake body (`POST /api/tickets`) and of every ticket shape. */
 export const EQUIPMENT_KINDS = ['transceiver', 'amplifier', 'tuner', 'power_supply', 'cable', 'accessory', 'other'] as const;
 export type EquipmentKind = (typeof EQUIPMENT_KINDS)[number];
+/** The words for each kind (the client's forms, the intake tag and the timeline say the same). */
+export const EQUIPMENT_KIND_LABELS: Record<EquipmentKind, string> = {
+  transceiver: 'Transceiver',
+  amplifier: 'Amplifier',
+  tuner: 'Antenna tuner',
+  power_supply: 'Power supply',
+  cable: 'Cable or lead',
+  accessory: 'Accessory',
+  other: 'Other',
+};
+
+/** Symptoms ticked at intake (`symptoms` of the intake body), in the order the form shows them. */
+export const SYMPTOMS = ['no_power', 'display_dark', 'relay_clicks_no_display', 'no_transmit', 'no_receive', 'distorted_audio', 'control_cable', 'other'] as const;
+export type Symptom = (typeof SYMPTOMS)[number];
+/** The words for each symptom: the form, the intake tag and the mails say the same. */
+export const SYMPTOM_LABELS: Record<Symptom, string> = {
+  no_power: 'No power',
+  display_dark: 'Powers on, display dark',
+  relay_clicks_no_display: 'Relay clicks, no display',
+  no_transmit: 'No transmit',
+  no_receive: 'No receive',
+  distorted_audio: 'Distorted audio',
+  control_cable: 'Control-cable trouble',
+  other: 'Other',
+};
+
+/** The intake form's accessory checklist; anything else is typed in (stored by these words). */
+export const COMMON_ACCESSORIES = ['Power lead', 'Control cable', 'Microphone', 'Manual', 'Antenna', 'Battery', 'Charger', 'Carry case'] as const;
+
+/** How the owner wants to hear about the ticket (`updatesBy`). Mail goes only with 'email' and an address. */
+export const UPDATE_CHANNELS = ['email', 'phone', 'none'] as const;
+export type UpdateChannel = (typeof UPDATE_CHANNELS)[number];
 
 /** `kind` of a timeline event in `GET /api/tickets/:tag`. */
 // Kinds of timeline events; stored as text (migration 025), so a new kind is one more line here.
@@ -30,6 +62,8 @@ export const EVENT_KINDS = [
   'charge_waived',
   'payment_received',
   'payment_refunded',
+  'intake_edited',
+  'photo_added',
 ] as const;
 export type EventKind = (typeof EVENT_KINDS)[number];
 
@@ -74,11 +108,15 @@ export interface TicketDetail extends TicketRow {
   serialNumber: string | null;
   units: string[];
   faultReported: string;
+  symptoms: Symptom[];
   accessories: string[];
+  accessoriesNote: string | null;
   firmwareVersions: string | null;
   reflashConsent: boolean;
+  /** True when updates go by e-mail (updatesBy 'email' and the owner has an address). */
   notifyByEmail: boolean;
-  ownerEmail: string;
+  updatesBy: UpdateChannel;
+  ownerEmail: string | null;
   ownerPhone: string | null;
   ownerCallSign: string | null;
   technicianName: string | null;

@@ -9,8 +9,9 @@ export type { BlobStore, StagedBlob } from './blob-store';
 
 const stores = new Map<string, BlobStore>();
 
-export function blobStoreFor(config: Pick<Config, 'RW_STORAGE_DIR' | 'RW_DB_NAME'>): BlobStore {
-  const root = path.resolve(config.RW_STORAGE_DIR, config.RW_DB_NAME, 'firmware');
+/** One store per area (firmware images, ticket photos), each in its own folder. */
+export function blobStoreFor(config: Pick<Config, 'RW_STORAGE_DIR' | 'RW_DB_NAME'>, area: 'firmware' | 'photos' = 'firmware'): BlobStore {
+  const root = path.resolve(config.RW_STORAGE_DIR, config.RW_DB_NAME, area);
   let store = stores.get(root);
   if (!store) {
     store = new LocalFolderStore(root);

@@ -57,6 +57,8 @@ test('every mutating route refuses a request without a valid anti-forgery token,
     'POST /api/charges/:chargeId/waivers',
     'POST /api/payments/:paymentId/refunds',
     'POST /api/reconciliation/:month/close',
+    'PATCH /api/tickets/:tag/intake',
+    'POST /api/tickets/:tag/photos',
   ]) {
     assert.ok(routes.some((r) => `${r.method} ${r.path}` === expected), `sweep covers ${expected}`);
   }

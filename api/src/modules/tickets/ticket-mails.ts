@@ -25,17 +25,35 @@ function signature(clubName: string): string {
   return `Rigwright, the repair bench of ${clubName}`;
 }
 
-/** Sent when equipment is handed in (the owner asked for e-mail). */
-export function ticketOpenedMail(facts: TicketMailFacts & { faultReported: string }): MailContent {
+export interface IntakeMailFacts {
+  faultReported: string;
+  /** Labels of the ticked symptoms. */
+  symptoms: string[];
+  serialNumber: string | null;
+  units: string[];
+  accessories: string[];
+  accessoriesNote: string | null;
+}
+
+/** Sent when equipment is handed in (the owner asked for e-mail): what the bench holds, for the owner to check. */
+export function ticketOpenedMail(facts: TicketMailFacts & IntakeMailFacts): MailContent {
   const { tag } = facts;
+  const handedIn = facts.accessories.length ? facts.accessories.join(', ') : 'nothing besides the equipment';
   return {
     subject: `Ticket ${tag} opened`,
     text: [
       `Hello ${facts.ownerName},`,
       '',
       `Your ${facts.makeModel} has been handed in at the bench as ticket ${tag}.`,
+      '',
+      `Equipment: ${facts.makeModel}${facts.units.length ? ` (${facts.units.join(', ')})` : ''}`,
+      `Serial number: ${facts.serialNumber ?? 'not recorded'}`,
+      `Accessories handed in: ${handedIn}`,
+      ...(facts.accessoriesNote ? [`About the accessories: ${facts.accessoriesNote}`] : []),
+      ...(facts.symptoms.length ? [`Symptoms: ${facts.symptoms.join('; ')}`] : []),
       `Fault as reported: ${facts.faultReported}`,
       '',
+      'If anything above is wrong or missing, tell the bench when you quote the tag number.',
       `Quote ${tag} when you ask about it. You will get an e-mail each time it moves on.`,
       ...followLines(facts),
       '',

@@ -10,7 +10,7 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
-import { EQUIPMENT_KINDS, EVENT_KINDS, type EquipmentKind, type EventKind } from '../../contracts/tickets';
+import { EQUIPMENT_KINDS, EVENT_KINDS, type EquipmentKind, type EventKind, type Symptom, type UpdateChannel } from '../../contracts/tickets';
 import { STATES, type TicketState } from '../../domain/workflow';
 import type { User } from '../users/user.model';
 
@@ -18,7 +18,8 @@ export class Ticket extends Model<InferAttributes<Ticket>, InferCreationAttribut
   declare id: CreationOptional<number>;
   declare ownerUserId: number | null;
   declare ownerName: string;
-  declare ownerEmail: string;
+  /** Null for an owner handed in at the bench with a phone number only: no mail is ever sent. */
+  declare ownerEmail: string | null;
   declare ownerPhone: string | null;
   declare ownerCallSign: string | null;
   declare equipmentKind: EquipmentKind;
@@ -26,10 +27,13 @@ export class Ticket extends Model<InferAttributes<Ticket>, InferCreationAttribut
   declare serialNumber: string | null;
   declare units: string[];
   declare faultReported: string;
+  declare symptoms: CreationOptional<Symptom[]>;
   declare accessories: string[];
+  declare accessoriesNote: CreationOptional<string | null>;
   declare firmwareVersions: string | null;
   declare reflashConsent: boolean;
   declare notifyByEmail: boolean;
+  declare updatesBy: CreationOptional<UpdateChannel>;
   declare state: CreationOptional<TicketState>;
   declare stateSince: Date;
   declare technicianId: number | null;
@@ -88,7 +92,7 @@ export function initTicketModels(sequelize: Sequelize): void {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
       ownerUserId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       ownerName: { type: DataTypes.STRING(100), allowNull: false },
-      ownerEmail: { type: DataTypes.STRING(254), allowNull: false },
+      ownerEmail: { type: DataTypes.STRING(254), allowNull: true },
       ownerPhone: { type: DataTypes.STRING(40), allowNull: true },
       ownerCallSign: { type: DataTypes.STRING(12), allowNull: true },
       equipmentKind: { type: DataTypes.ENUM(...EQUIPMENT_KINDS), allowNull: false },
@@ -102,6 +106,14 @@ export function initTicketModels(sequelize: Sequelize): void {
         },
       },
       faultReported: { type: DataTypes.TEXT, allowNull: false },
+      symptoms: {
+        type: DataTypes.JSON,
+        allowNull: true,
+        defaultValue: [],
+        get(this: Ticket) {
+          return jsonArray.call(this, 'symptoms') as Symptom[];
+        },
+      },
       accessories: {
         type: DataTypes.JSON,
         allowNull: false,
@@ -109,9 +121,11 @@ export function initTicketModels(sequelize: Sequelize): void {
           return jsonArray.call(this, 'accessories');
         },
       },
+      accessoriesNote: { type: DataTypes.STRING(500), allowNull: true, defaultValue: null },
       firmwareVersions: { type: DataTypes.STRING(500), allowNull: true },
       reflashConsent: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       notifyByEmail: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+      updatesBy: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'email' },
       state: { type: DataTypes.ENUM(...STATES), allowNull: false, defaultValue: 'intake' },
       stateSince: { type: DataTypes.DATE(3), allowNull: false },
       technicianId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },

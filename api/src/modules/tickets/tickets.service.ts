@@ -3,7 +3,7 @@
 // transactions, throw typed errors and return plain objects (the API's DTOs).
 import { Op, OptimisticLockError, type FindOptions, type InferAttributes, type Order, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type { AppDeps } from '../../deps';
-import { ConflictError, ForbiddenError, NotFoundError, RuleError } from '../../errors';
+import { ConflictError, ForbiddenError, NotFoundError, RuleError, ValidationError } from '../../errors';
 import { checkMove, isState, moveRequirement, STATE_LABELS, STATES, type MoveFacts, type TicketState } from '../../domain/workflow';
 import { hasRole } from '../auth/guards';
 import type { SessionUser } from '../auth/session-user';
@@ -12,7 +12,7 @@ import { bumpBoardRevision } from '../board/board-revision';
 import { readClubName } from '../club/club-settings.service';
 import { User } from '../users/user.model';
 import type { Page } from '../../contracts/lists';
-import type { MoveOption, TicketDetail, TicketEventDto, TicketRow } from '../../contracts/tickets';
+import { SYMPTOM_LABELS, type MoveOption, type TicketDetail, type TicketEventDto, type TicketRow } from '../../contracts/tickets';
 import { Ticket, TicketEvent } from './ticket.model';
 import { formatTag, parseTag } from './tag';
 import { ticketMovedMail, ticketOpenedMail } from './ticket-mails';
@@ -24,7 +24,7 @@ import { statusLinkFor } from '../owner-links/owner-link-tokens';
 import { latestLaneEvent, previousStateOf, undoOfferOf } from '../moves/move-history';
 import { queueMoveMail } from '../moves/move-mail';
 import { balanceSettledOf } from '../payments/ledger.service';
-import type { IntakeInput, ListQuery, MoveInput } from './tickets.schemas';
+import type { IntakeInput, ListQuery, MoveInput, OwnerInput } from './tickets.schemas';
 
 export type TicketsDeps = Pick<AppDeps, 'sequelize' | 'config' | 'clock'>;
 
@@ -41,7 +41,7 @@ export function movesTickets(user: SessionUser): boolean {
 
 const iso = (d: Date | string) => (d instanceof Date ? d : new Date(d)).toISOString();
 
-function ticketLink(config: TicketsDeps['config'], tag: string): string {
+export function ticketLink(config: TicketsDeps['config'], tag: string): string {
   return `${config.RW_PUBLIC_URL.replace(/\/$/, '')}/tickets/${tag}`;
 }
 
@@ -91,26 +91,7 @@ export async function openTicket(deps: TicketsDeps, user: SessionUser, input: In
     throw new ForbiddenError('Only technicians can hand equipment in for someone else.', 'owner_not_allowed');
   }
   const id = await sequelize.transaction(async (transaction) => {
-    let owner: Pick<Ticket, 'ownerUserId' | 'ownerName' | 'ownerEmail' | 'ownerPhone' | 'ownerCallSign'>;
-    if (input.owner) {
-      // Someone handed in at the bench: link the ticket to their account if they have one.
-      const account = await User.findOne({ where: { email: input.owner.email }, attributes: ['id'], transaction });
-      owner = {
-        ownerUserId: account?.id ?? null,
-        ownerName: input.owner.name,
-        ownerEmail: input.owner.email,
-        ownerPhone: input.owner.phone ?? null,
-        ownerCallSign: input.owner.callSign ?? null,
-      };
-    } else {
-      owner = {
-        ownerUserId: user.id,
-        ownerName: user.displayName,
-        ownerEmail: user.email,
-        ownerPhone: null,
-        ownerCallSign: user.callSign,
-      };
-    }
+    const owner = await ownerOf(user, input.owner, transaction);
     const now = clock();
     const ticket = await Ticket.create(
       {
@@ -120,10 +101,14 @@ export async function openTicket(deps: TicketsDeps, user: SessionUser, input: In
         serialNumber: input.serialNumber ?? null,
         units: input.units,
         faultReported: input.faultReported,
+        symptoms: input.symptoms,
         accessories: input.accessories,
+        accessoriesNote: input.accessoriesNote ?? null,
         firmwareVersions: input.firmwareVersions ?? null,
         reflashConsent: input.reflashConsent,
-        notifyByEmail: input.notifyByEmail,
+        updatesBy: input.updatesBy,
+        // Mail goes only where the owner asked for it and has an address to send it to.
+        notifyByEmail: input.updatesBy === 'email' && owner.ownerEmail !== null,
         state: 'intake',
         stateSince: now,
         technicianId: null,
@@ -135,7 +120,7 @@ export async function openTicket(deps: TicketsDeps, user: SessionUser, input: In
       { ticketId: ticket.id, actorId: user.id, kind: 'opened', fromState: null, toState: 'intake', note: null, ownerVisible: true, createdAt: now },
       { transaction },
     );
-    if (ticket.notifyByEmail) {
+    if (ticket.notifyByEmail && ticket.ownerEmail) {
       const tag = formatTag(ticket.id);
       const mail = ticketOpenedMail({
         clubName: await readClubName(transaction),
@@ -145,6 +130,11 @@ export async function openTicket(deps: TicketsDeps, user: SessionUser, input: In
         link: ticketLink(deps.config, tag),
         statusLink: await statusLinkFor(deps.config, transaction, ticket.id, tag, now),
         faultReported: ticket.faultReported,
+        symptoms: ticket.symptoms.map((code) => SYMPTOM_LABELS[code]),
+        serialNumber: ticket.serialNumber,
+        units: ticket.units,
+        accessories: ticket.accessories,
+        accessoriesNote: ticket.accessoriesNote ?? null,
       });
       await enqueueMail(transaction, { kind: 'ticket_opened', to: ticket.ownerEmail, ticketId: ticket.id, ...mail }, now);
     }
@@ -152,6 +142,29 @@ export async function openTicket(deps: TicketsDeps, user: SessionUser, input: In
     return ticket.id;
   });
   return getTicketDetail(deps, user, { tag: formatTag(id) });
+}
+
+type OwnerColumns = Pick<Ticket, 'ownerUserId' | 'ownerName' | 'ownerEmail' | 'ownerPhone' | 'ownerCallSign'>;
+
+/** Who owns a new ticket: the person handing in, a member chosen by the bench, or someone at the bench. */
+async function ownerOf(user: SessionUser, input: OwnerInput | undefined, transaction: Transaction): Promise<OwnerColumns> {
+  if (!input) {
+    return { ownerUserId: user.id, ownerName: user.displayName, ownerEmail: user.email, ownerPhone: null, ownerCallSign: user.callSign };
+  }
+  if (input.accountId !== undefined) {
+    const account = await User.findOne({ where: { id: input.accountId, disabled: false }, attributes: ['id', 'displayName', 'email', 'callSign'], transaction });
+    if (!account) throw new ValidationError('That member was not found: choose them again from the list.', { 'owner.accountId': 'Choose the member from the list.' });
+    return { ownerUserId: account.id, ownerName: account.displayName, ownerEmail: account.email, ownerPhone: null, ownerCallSign: account.callSign };
+  }
+  // Someone handed in at the bench: link the ticket to their account if their e-mail has one.
+  const account = input.email ? await User.findOne({ where: { email: input.email }, attributes: ['id'], transaction }) : null;
+  return {
+    ownerUserId: account?.id ?? null,
+    ownerName: input.name!,
+    ownerEmail: input.email ?? null,
+    ownerPhone: input.phone ?? null,
+    ownerCallSign: input.callSign ?? null,
+  };
 }
 
 const SORT_ATTRIBUTES: Record<ListQuery['sort'], keyof InferAttributes<Ticket>> = {
@@ -266,10 +279,13 @@ function toDetail(ticket: Ticket, technicianName: string | null, events: TicketE
     serialNumber: ticket.serialNumber,
     units: ticket.units,
     faultReported: ticket.faultReported,
+    symptoms: ticket.symptoms,
     accessories: ticket.accessories,
+    accessoriesNote: ticket.accessoriesNote ?? null,
     firmwareVersions: ticket.firmwareVersions,
     reflashConsent: ticket.reflashConsent,
     notifyByEmail: ticket.notifyByEmail,
+    updatesBy: ticket.updatesBy,
     ownerEmail: ticket.ownerEmail,
     ownerPhone: ticket.ownerPhone,
     ownerCallSign: ticket.ownerCallSign,

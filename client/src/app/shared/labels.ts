@@ -1,9 +1,9 @@
 import { STATE_LABELS, TicketState } from '@domain/workflow';
 import { FLAGS, Flag } from '@contracts/board';
-import { EQUIPMENT_KINDS, EquipmentKind } from '@contracts/tickets';
+import { EQUIPMENT_KIND_LABELS, EQUIPMENT_KINDS, EquipmentKind } from '@contracts/tickets';
 
 // The code lists are the API's (api/src/contracts/); the words and icons for them live here.
-export { EQUIPMENT_KINDS, FLAGS };
+export { EQUIPMENT_KIND_LABELS, EQUIPMENT_KINDS, FLAGS };
 export type { EquipmentKind, Flag };
 
 // Words and icons for states and flags: status is never colour alone (design-language.md).
@@ -34,16 +34,6 @@ export const FLAG_ICONS: Record<Flag, string> = {
   parts_on_order: 'local_shipping',
   balance_due: 'payments',
   test_failed: 'report',
-};
-
-export const EQUIPMENT_KIND_LABELS: Record<EquipmentKind, string> = {
-  transceiver: 'Transceiver',
-  amplifier: 'Amplifier',
-  tuner: 'Antenna tuner',
-  power_supply: 'Power supply',
-  cable: 'Cable or lead',
-  accessory: 'Accessory',
-  other: 'Other',
 };
 
 export function equipmentKindLabel(kind: string): string {

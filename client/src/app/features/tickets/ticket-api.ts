@@ -3,7 +3,7 @@ import { Injectable, inject } from '@angular/core';
 import { Observable } from 'rxjs';
 import { Page } from '@contracts/lists';
 import { HANDLES_OWN_ERRORS, SESSION_ENDS_ON_401, queryParams } from '../../core/http/api-error';
-import { IntakeBody, MoveBody, TicketDetail, TicketQuery, TicketRow } from './ticket.models';
+import { IntakeBody, IntakeEditBody, MoveBody, OwnerSuggestion, TicketDetail, TicketQuery, TicketRow } from './ticket.models';
 
 /** The ticket routes of the API. */
 @Injectable({ providedIn: 'root' })
@@ -33,5 +33,22 @@ export class TicketApi {
     return this.http.post<TicketDetail>(`/api/tickets/${encodeURIComponent(tag)}/moves`, body, {
       context: new HttpContext().set(HANDLES_OWN_ERRORS, true).set(SESSION_ENDS_ON_401, true),
     });
+  }
+
+  /** Members a technician may hand in for (name, e-mail or call sign). */
+  searchOwners(q: string): Observable<{ items: OwnerSuggestion[] }> {
+    return this.http.get<{ items: OwnerSuggestion[] }>('/api/tickets/owners', { params: { q } });
+  }
+
+  /** The edit form shows field errors and the 409 itself. */
+  editIntake(tag: string, body: IntakeEditBody): Observable<TicketDetail> {
+    return this.http.patch<TicketDetail>(`/api/tickets/${encodeURIComponent(tag)}/intake`, body, {
+      context: new HttpContext().set(HANDLES_OWN_ERRORS, true),
+    });
+  }
+
+  /** The printable intake tag (a link the browser opens; not fetched through HttpClient). */
+  intakeTagUrl(tag: string): string {
+    return `/api/tickets/${encodeURIComponent(tag)}/intake-tag.pdf`;
   }
 }

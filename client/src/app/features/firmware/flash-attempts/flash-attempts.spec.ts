@@ -11,7 +11,7 @@ function ticket(extra: Partial<TicketDetail> = {}): TicketDetail {
   return {
     id: 9, tag: 'RW-0009', equipmentKind: 'transceiver', makeModel: 'Fenwick Heron 100 HF transceiver', ownerName: 'Tamsin Greave',
     state: 'reflash', stateSince: new Date().toISOString(), createdAt: '2026-11-29T02:59:00Z', version: 2, serialNumber: 'FH100-19260',
-    units: ['display head', 'main body'], faultReported: 'Display dark.', accessories: [], firmwareVersions: null, reflashConsent: true,
+    units: ['display head', 'main body'], faultReported: 'Display dark.', symptoms: [], accessories: [], accessoriesNote: null, updatesBy: 'email', firmwareVersions: null, reflashConsent: true,
     notifyByEmail: true, ownerEmail: 'tamsin@kestrelfen.example', ownerPhone: null, ownerCallSign: null, technicianName: 'Tobin Marsh', technicianId: 3, previousState: 'diagnosis', undo: null,
     awaitingApproval: false, partsOnOrder: false, events: [], moves: STATES.map((to) => ({ to, allowed: false, reason: 'x' })),
     ...extra,

@@ -1,12 +1,17 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { MatStepper } from '@angular/material/stepper';
 import { provideRouter } from '@angular/router';
 import { Role } from '../../../core/auth/auth.models';
 import { SessionStore } from '../../../core/auth/session-store';
 import { IntakePage } from './intake-page';
+import { CONTACT_MESSAGE, EMAIL_UPDATES_MESSAGE, SYMPTOM_MESSAGE } from './intake-rules';
 
-describe('IntakePage (Hand in equipment)', () => {
+/** A stepper walk of six steps takes a few seconds on a busy machine. */
+const SLOW = 30_000;
+
+describe('IntakePage (Hand in equipment, the stepper)', () => {
   let fixture: ComponentFixture<IntakePage>;
   let http: HttpTestingController;
   let root: HTMLElement;
@@ -15,13 +20,7 @@ describe('IntakePage (Hand in equipment)', () => {
     TestBed.configureTestingModule({
       providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
     });
-    TestBed.inject(SessionStore).set({
-      id: 7,
-      email: 'orla@kestrelfen.example',
-      displayName: 'Orla Fenwick',
-      callSign: 'Q2KFA',
-      roles,
-    });
+    TestBed.inject(SessionStore).set({ id: 7, email: 'orla@kestrelfen.example', displayName: 'Orla Fenwick', callSign: 'Q2KFA', roles });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(IntakePage);
     root = fixture.nativeElement;
@@ -30,8 +29,15 @@ describe('IntakePage (Hand in equipment)', () => {
 
   afterEach(() => http.verify());
 
-  const errors = () => Array.from(root.querySelectorAll('mat-error')).map((e) => e.textContent?.trim());
-  const submit = () => root.querySelector<HTMLButtonElement>('button[type="submit"]')!.click();
+  const stepIndex = () => (fixture.componentInstance['stepper']() as MatStepper).selectedIndex;
+  const forms = () => Array.from(root.querySelectorAll<HTMLFormElement>('form'));
+  const texts = (selector: string) => Array.from(root.querySelectorAll(selector)).map((e) => e.textContent?.trim());
+
+  /** Presses Next on step `i` (0-based) and waits for the page to settle. */
+  async function next(i: number) {
+    forms()[i]!.querySelector<HTMLButtonElement>('button[type="submit"]')!.click();
+    await fixture.whenStable();
+  }
 
   function type(selector: string, value: string) {
     const el = root.querySelector<HTMLInputElement | HTMLTextAreaElement>(selector)!;
@@ -40,137 +46,166 @@ describe('IntakePage (Hand in equipment)', () => {
     el.dispatchEvent(new Event('blur'));
   }
 
+  function tick(label: string) {
+    const box = Array.from(root.querySelectorAll<HTMLElement>('mat-checkbox')).find((c) => c.textContent?.trim() === label)!;
+    box.querySelector('input')!.click();
+  }
+
+  function choose(label: string) {
+    const radio = Array.from(root.querySelectorAll<HTMLElement>('mat-radio-button')).find((c) => c.textContent?.trim() === label)!;
+    radio.querySelector('input')!.click();
+  }
+
   async function chooseKind(label: string) {
     root.querySelector<HTMLElement>('mat-select[formcontrolname="equipmentKind"] .mat-mdc-select-trigger')!.click();
-    fixture.detectChanges();
     await fixture.whenStable();
-    const option = Array.from(document.querySelectorAll<HTMLElement>('mat-option')).find(
-      (o) => o.textContent?.trim() === label,
-    );
-    option!.click();
+    Array.from(document.querySelectorAll<HTMLElement>('mat-option'))
+      .find((o) => o.textContent?.trim() === label)!
+      .click();
     await fixture.whenStable();
   }
 
-  async function fillRequired() {
+  /** Equipment, fault, accessories: valid values, leaving the page on the consent step. */
+  async function fillMiddleSteps() {
     await chooseKind('Transceiver');
     type('input[formcontrolname="makeModel"]', 'Kestrel QX-7');
+    type('input[formcontrolname="serialNumber"]', 'KF-000123');
+    await next(1);
+    tick('Relay clicks, no display');
     type('textarea[formcontrolname="faultReported"]', 'Relay clicks at power-on, display stays dark.');
-    await fixture.whenStable();
+    await next(2);
+    tick('Control cable');
+    await next(3);
   }
 
-  it('refuses to send an empty form and says what each required field needs', async () => {
-    await setup(['member']);
-    submit();
+  it('someone at the bench: a name alone does not pass the owner step; a phone makes it pass', async () => {
+    await setup(['technician']);
+    choose('Someone at the bench');
     await fixture.whenStable();
-    http.expectNone('/api/tickets');
-    expect(errors()).toEqual(
-      expect.arrayContaining(['Choose the kind of equipment.', 'Enter the make and model.', 'Enter the fault as reported.']),
-    );
-    expect(root.querySelector('[role="alert"]')?.textContent).toContain('Some fields need attention');
-  });
+    type('input[formcontrolname="name"]', 'Edmund Rushby');
+    await next(0);
+    expect(stepIndex()).toBe(0);
+    expect(texts('[role="alert"]')).toContain(CONTACT_MESSAGE);
+    type('input[formcontrolname="phone"]', '01632 960417');
+    await next(0);
+    expect(stepIndex()).toBe(1);
+  }, SLOW);
 
-  it('a fault shorter than 5 characters is refused with its length rule', async () => {
+  it('a member to hand in for must be chosen from the list', async () => {
+    await setup(['technician']);
+    choose('A member of the club');
+    await fixture.whenStable();
+    await next(0);
+    expect(stepIndex()).toBe(0);
+    expect(texts('[role="alert"]').join(' ')).toContain('Choose the member from the list');
+  }, SLOW);
+
+  it('the equipment and fault steps say what each needs, and hold the stepper until it is given', async () => {
     await setup(['member']);
-    await fillRequired();
+    await next(0); // a member hands in their own: nothing to fill
+    expect(stepIndex()).toBe(1);
+    await next(1);
+    expect(stepIndex()).toBe(1);
+    expect(texts('mat-error')).toEqual(expect.arrayContaining(['Choose the kind of equipment.', 'Enter the make and model.']));
+    await chooseKind('Transceiver');
+    type('input[formcontrolname="makeModel"]', 'Kestrel QX-7');
+    await next(1);
+    expect(stepIndex()).toBe(2);
     type('textarea[formcontrolname="faultReported"]', 'dead');
-    submit();
-    await fixture.whenStable();
-    http.expectNone('/api/tickets');
-    expect(errors()).toContain('Fault as reported needs at least 5 characters.');
-  });
+    await next(2);
+    expect(stepIndex()).toBe(2);
+    expect(texts('[role="alert"]')).toContain(SYMPTOM_MESSAGE);
+    expect(texts('mat-error')).toContain('Fault as reported needs at least 5 characters.');
+  }, SLOW);
 
-  it('sends the intake body, and server field errors land on the matching controls', async () => {
-    await setup(['member']);
-    await fillRequired();
-    type('input[formcontrolname="serialNumber"]', 'KF-000123');
-    const accessory = Array.from(root.querySelectorAll<HTMLElement>('mat-checkbox')).find((c) =>
-      c.textContent?.includes('DC lead'),
-    )!;
-    accessory.querySelector('input')!.click();
-    submit();
-    fixture.detectChanges();
+  it('updates by e-mail need an e-mail address for someone at the bench', async () => {
+    await setup(['technician']);
+    choose('Someone at the bench');
+    await fixture.whenStable();
+    type('input[formcontrolname="name"]', 'Edmund Rushby');
+    type('input[formcontrolname="phone"]', '01632 960417');
+    await next(0);
+    await fillMiddleSteps();
+    expect(stepIndex()).toBe(4);
+    choose('By e-mail');
+    await next(4);
+    expect(stepIndex()).toBe(4);
+    expect(texts('[role="alert"]')).toContain(EMAIL_UPDATES_MESSAGE);
+    choose('By phone');
+    await next(4);
+    expect(stepIndex()).toBe(5);
+  }, SLOW);
+
+  it('sends the whole intake, then shows the tag, the intake tag link and the photos', async () => {
+    await setup(['technician']);
+    choose('Someone at the bench');
+    await fixture.whenStable();
+    type('input[formcontrolname="name"]', 'Edmund Rushby');
+    type('input[formcontrolname="phone"]', '01632 960417');
+    type('input[formcontrolname="callSign"]', 'q4erb');
+    await next(0);
+    await fillMiddleSteps();
+    tick('The owner agrees to a reflash of the firmware if the technician needs one');
+    choose('By phone');
+    await next(4);
+    expect(root.textContent).toContain('Edmund Rushby · 01632 960417');
+    Array.from(root.querySelectorAll<HTMLButtonElement>('button')).find((b) => b.textContent?.includes('Hand in and open a ticket'))!.click();
+    await fixture.whenStable();
 
     const req = http.expectOne('/api/tickets');
-    expect(req.request.method).toBe('POST');
     expect(req.request.body).toEqual({
       equipmentKind: 'transceiver',
       makeModel: 'Kestrel QX-7',
       serialNumber: 'KF-000123',
       units: [],
+      symptoms: ['relay_clicks_no_display'],
       faultReported: 'Relay clicks at power-on, display stays dark.',
-      accessories: ['DC lead'],
-      reflashConsent: false,
-      notifyByEmail: true,
+      accessories: ['Control cable'],
+      reflashConsent: true,
+      updatesBy: 'phone',
+      owner: { name: 'Edmund Rushby', phone: '01632 960417', callSign: 'Q4ERB' },
     });
-    // A member never sends an owner: their ticket is their own.
-    expect(req.request.body.owner).toBeUndefined();
-
-    req.flush(
-      {
-        error: {
-          code: 'validation_failed',
-          message: 'Some fields need attention.',
-          fields: { makeModel: 'That make and model is not one the bench can take.', serialNumber: 'Serial numbers are letters, digits and dashes.' },
-        },
-      },
-      { status: 400, statusText: 'Bad Request' },
-    );
+    req.flush({ tag: 'RW-0042', state: 'intake' }, { status: 201, statusText: 'Created' });
+    // The last step opens and its photo gallery asks for the list (whenStable would wait for that answer).
+    for (let i = 0; i < 5; i++) {
+      await new Promise((r) => setTimeout(r));
+      fixture.detectChanges();
+    }
+    http.expectOne('/api/tickets/RW-0042/photos?stage=intake').flush({ items: [] });
     await fixture.whenStable();
-    expect(errors()).toEqual([
-      'That make and model is not one the bench can take.',
-      'Serial numbers are letters, digits and dashes.',
-    ]);
-    // Each message sits in the form field of its own control.
-    const makeField = root.querySelector('input[formcontrolname="makeModel"]')!.closest('mat-form-field')!;
-    expect(makeField.querySelector('mat-error')?.textContent?.trim()).toBe('That make and model is not one the bench can take.');
-  });
-
-  it('on success shows the tag number with a link to the ticket', async () => {
-    await setup(['member']);
-    await fillRequired();
-    submit();
-    fixture.detectChanges();
-    http.expectOne('/api/tickets').flush({ tag: 'RW-0042', state: 'intake' }, { status: 201, statusText: 'Created' });
-    await fixture.whenStable();
+    expect(stepIndex()).toBe(6);
     expect(root.querySelector('[data-testid="opened-tag"]')?.textContent?.trim()).toBe('RW-0042');
-    expect(root.textContent).toContain('Quote it when you ask about your equipment.');
-    expect(root.querySelector<HTMLAnchorElement>('a[href="/tickets/RW-0042"]')?.textContent).toContain('Open ticket RW-0042');
-  });
+    expect(root.querySelector<HTMLAnchorElement>('[data-testid="intake-tag-link"]')?.getAttribute('href')).toBe('/api/tickets/RW-0042/intake-tag.pdf');
+    expect(root.textContent).toContain('No condition photos yet.');
+  }, SLOW);
 
-  it('shows the reflash caution beside the consent box', async () => {
-    await setup(['member']);
-    const caution = root.querySelector('rw-caution')!;
-    expect(caution.textContent).toContain('Settings and memories may be lost.');
-    expect(caution.textContent).toContain('unbootable');
-    expect(caution.textContent).toContain('Follow local codes and licensed practice.');
-  });
-
-  it('members do not see the owner section; technicians do, and its fields are required once ticked', async () => {
-    await setup(['member']);
-    expect(root.textContent).not.toContain('On behalf of an owner');
-    TestBed.resetTestingModule();
-
+  it('server field errors land on their controls, with a message pointing back to the step', async () => {
     await setup(['technician']);
-    expect(root.textContent).toContain('On behalf of an owner');
-    await fillRequired();
-    const behalf = Array.from(root.querySelectorAll<HTMLElement>('mat-checkbox')).find((c) =>
-      c.textContent?.includes('for someone else'),
-    )!;
-    behalf.querySelector('input')!.click();
+    choose('Someone at the bench');
     await fixture.whenStable();
-    submit();
+    type('input[formcontrolname="name"]', 'Edmund Rushby');
+    type('input[formcontrolname="phone"]', '01632 960417');
+    await next(0);
+    await fillMiddleSteps();
+    choose('No updates');
+    await next(4);
+    Array.from(root.querySelectorAll<HTMLButtonElement>('button')).find((b) => b.textContent?.includes('Hand in and open a ticket'))!.click();
     await fixture.whenStable();
-    http.expectNone('/api/tickets');
-    expect(errors()).toEqual(expect.arrayContaining(["Enter the owner's name.", "Enter the owner's e-mail."]));
+    http
+      .expectOne('/api/tickets')
+      .flush(
+        { error: { code: 'validation_failed', message: 'Some fields need attention.', fields: { 'owner.phone': 'That number has too few digits.' } } },
+        { status: 400, statusText: 'Bad Request' },
+      );
+    await fixture.whenStable();
+    const phoneField = root.querySelector('input[formcontrolname="phone"]')!.closest('mat-form-field')!;
+    expect(phoneField.querySelector('mat-error')?.textContent?.trim()).toBe('That number has too few digits.');
+  }, SLOW);
 
-    type('input[formcontrolname="name"]', 'Bram Ellery');
-    type('input[formcontrolname="email"]', 'bram@kestrelfen.example');
-    type('input[formcontrolname="callSign"]', 'q9xyz');
-    await fixture.whenStable();
-    submit();
-    fixture.detectChanges();
-    const req = http.expectOne('/api/tickets');
-    expect(req.request.body.owner).toEqual({ name: 'Bram Ellery', email: 'bram@kestrelfen.example', callSign: 'Q9XYZ' });
-    req.flush({ tag: 'RW-0043' }, { status: 201, statusText: 'Created' });
-  });
+  it('shows the reflash caution on the consent step', async () => {
+    await setup(['member']);
+    const caution = root.querySelector('rw-caution');
+    expect(caution?.getAttribute('aria-label')).toBe("Caution: A reflash can erase the radio's settings");
+    expect(caution?.textContent).toContain('Settings and memories may be lost.');
+  }, SLOW);
 });

@@ -26,7 +26,10 @@ function detail(extra: Partial<TicketDetail> = {}): TicketDetail {
     serialNumber: 'FH-0042',
     units: ['display head', 'main body'],
     faultReported: 'Dark display after a power cut.',
+    symptoms: ['relay_clicks_no_display'],
     accessories: ['DC lead'],
+    accessoriesNote: null,
+    updatesBy: 'email',
     firmwareVersions: null,
     reflashConsent: false,
     notifyByEmail: true,
@@ -104,6 +107,7 @@ describe('TicketPage', () => {
       TestBed.tick();
       await new Promise((resolve) => setTimeout(resolve, 0));
     }
+    for (const r of http.match((req) => /\/photos\?stage=intake$/.test(req.urlWithParams))) r.flush({ items: [] });
     for (const r of http.match((req) => /\/(quotes|notes|diagnosis)$/.test(req.url))) {
       if (r.request.url.endsWith('/quotes')) r.flush({ quotes: [], settings: { currency: 'GBP', approvalThresholdMinor: 5000 }, canWrite: false, reason: null });
       else if (r.request.url.endsWith('/notes')) r.flush({ items: [], total: 0, page: 1, pageSize: 10 });

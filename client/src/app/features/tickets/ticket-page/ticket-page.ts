@@ -25,6 +25,7 @@ import { QuoteSection } from '../../owner-records/quote-section/quote-section';
 import { MovesApi, undoWindowMs } from '../../moves/moves-api';
 import { TicketBench } from '../../moves/ticket-bench/ticket-bench';
 import { TicketLedger } from '../../payments/ticket-ledger/ticket-ledger';
+import { IntakeDetails } from '../intake-details/intake-details';
 import { TicketApi } from '../ticket-api';
 import { TicketDetail, MoveOption } from '../ticket.models';
 
@@ -45,6 +46,7 @@ import { TicketDetail, MoveOption } from '../ticket.models';
     QuoteSection,
     TicketBench,
     TicketLedger,
+    IntakeDetails,
     MatCardModule,
     MatButtonModule,
     MatIconModule,
