@@ -65,7 +65,7 @@ export async function addNote(deps: NotesDeps, user: SessionUser, input: { tag: 
         text: input.text,
         statusLink: await statusLinkFor(deps.config, transaction, ticket.id, tag, now),
       });
-      await enqueueMail(transaction, { kind: 'owner_note', to: ticket.ownerEmail, ticketId: ticket.id, ...mail }, now);
+      if (ticket.ownerEmail) await enqueueMail(transaction, { kind: 'owner_note', to: ticket.ownerEmail, ticketId: ticket.id, ...mail }, now);
     }
     return event.id;
   });

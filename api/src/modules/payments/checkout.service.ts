@@ -148,7 +148,7 @@ export async function startCheckoutForMember(deps: PaymentsDeps, user: SessionUs
   }
   if (ticket.ownerUserId !== user.id) throw new ForbiddenError('Only the owner pays a ticket online; record cash or a bank transfer instead.', 'not_owner');
   const page = `${deps.config.RW_PUBLIC_URL.replace(/\/$/, '')}/tickets/${formatTag(ticket.id)}`;
-  return startTicketCheckout(deps, ticket.id, { successUrl: `${page}?payment=done`, cancelUrl: `${page}?payment=cancelled`, customerEmail: ticket.ownerEmail });
+  return startTicketCheckout(deps, ticket.id, { successUrl: `${page}?payment=done`, cancelUrl: `${page}?payment=cancelled`, customerEmail: ticket.ownerEmail ?? undefined });
 }
 
 /** Card refunds at the provider through the SDK (idempotency key from the caller). */

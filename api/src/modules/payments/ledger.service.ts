@@ -343,7 +343,7 @@ export async function recordPaymentReceived(
       paidAt: localDate(now, timeZone),
       link: `${deps.config.RW_PUBLIC_URL.replace(/\/$/, '')}/tickets/${formatTag(ticket.id)}`,
     });
-    await enqueueMail(transaction, { kind: 'payment_receipt', to: ticket.ownerEmail, ticketId: ticket.id, ...mail }, now);
+    if (ticket.ownerEmail) await enqueueMail(transaction, { kind: 'payment_receipt', to: ticket.ownerEmail, ticketId: ticket.id, ...mail }, now);
   }
   return true;
 }

@@ -151,7 +151,7 @@ export async function writeQuote(deps: QuotesDeps, user: SessionUser, input: { t
         expiresDays: APPROVAL_LINK_DAYS,
         statusLink: await statusLinkFor(deps.config, transaction, ticket.id, tag, now),
       });
-      await enqueueMail(transaction, { kind: 'quote_approval', to: ticket.ownerEmail, ticketId: ticket.id, ...mail }, now);
+      if (ticket.ownerEmail) await enqueueMail(transaction, { kind: 'quote_approval', to: ticket.ownerEmail, ticketId: ticket.id, ...mail }, now);
     }
     return quote.id;
   });

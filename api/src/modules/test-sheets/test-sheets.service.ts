@@ -132,7 +132,7 @@ export async function saveTestSheet(deps: TestSheetDeps, user: SessionUser, tag:
     );
     const canonical = formatTag(ticket.id);
     const sheet = toSheet(Object.assign(row, { technician: { displayName: user.displayName } }) as TestSheetRow, canonical);
-    if (result.passed && ticket.notifyByEmail) {
+    if (result.passed && ticket.notifyByEmail && ticket.ownerEmail) {
       const clubName = await readClubName(transaction);
       const pdf = await renderTestReport({ clubName, tag: canonical, makeModel: ticket.makeModel, serialNumber: ticket.serialNumber, ownerName: ticket.ownerName, sheet });
       const link = `${deps.config.RW_PUBLIC_URL.replace(/\/$/, '')}/tickets/${canonical}`;

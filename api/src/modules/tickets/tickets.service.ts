@@ -306,8 +306,9 @@ export function undoGraceMs(config: TicketsDeps['config']): number {
 export function moveMailInput(deps: TicketsDeps, ticket: Ticket, from: TicketState, now: Date, transaction: Transaction) {
   return {
     ticketId: ticket.id,
-    to: ticket.ownerEmail,
-    notify: ticket.notifyByEmail,
+    to: ticket.ownerEmail ?? '',
+    // Owners handed in with a phone number only are told by phone, not by mail.
+    notify: ticket.notifyByEmail && !!ticket.ownerEmail,
     from,
     current: ticket.state,
     now,
