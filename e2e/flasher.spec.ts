@@ -30,7 +30,7 @@ async function eraseAndReceive(page: Page, terminal: ReturnType<Page['getByTestI
 }
 
 test('flash the practice unit: a power dip fails at its block, the second run completes, verified running, on to Bench test', async ({ page, context }) => {
-  test.setTimeout(90_000);
+  test.setTimeout(120_000); // about 10 s of protocol time; the rest is a loaded test machine
   await signIn(page, DEMO.technician);
   const model = `Fenwick Kestrel 7 e2e ${Date.now().toString(36)}`;
   const xsrf = async () => (await context.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';

@@ -10,7 +10,6 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatRadioModule } from '@angular/material/radio';
 import { MatSelectModule } from '@angular/material/select';
 import { ActivatedRoute, Router, RouterLink } from '@angular/router';
-import { crc16XmodemUpdate } from '@domain/crc16-xmodem';
 import type { PracticeUnitEvent } from '@domain/practice-unit';
 import { SERIAL_BAUDS, planXmodemTransfer, type XmodemBlockSize } from '@domain/xmodem';
 import { from, map, switchMap } from 'rxjs';
@@ -38,7 +37,7 @@ import {
 } from '../flasher-record';
 import { openPracticeLink } from '../practice-link';
 import { RecordedRun } from '../recorded-run';
-import { NO_FAULTS, PracticePanel, type PracticeFaultsForm } from '../practice-panel/practice-panel';
+import { NO_FAULTS, PracticePanel, practiceSessionOptions, type PracticeFaultsForm } from '../practice-panel/practice-panel';
 import { DEFAULT_SERIAL_SETTINGS, describeSerial, type SerialLink, type SerialSettings } from '../serial-link';
 import { openWebSerialLink, webSerialUnavailableReason } from '../web-serial-link';
 
@@ -217,23 +216,8 @@ export class FlasherPage {
         this.portError.set('Choose an image first and let it be checked: the practice unit checks what it receives against it.');
         return;
       }
-      const f = this.faults();
-      const baud = this.settings().baudRate;
       const link = openPracticeLink(
-        {
-          hostBaud: baud,
-          unitBaud: f.wrongBaud ? (baud === 115200 ? 57600 : 115200) : baud,
-          unit: {
-            installedVersion: 'old (damaged)',
-            expected: { length: v.bytes.length, crc16: crc16XmodemUpdate(v.bytes), version: v.image.version },
-            faults: {
-              ...(f.bitErrorRate ? { bitErrorRate: f.bitErrorRate } : {}),
-              ...(f.dropByteAt !== null ? { dropByteAt: f.dropByteAt } : {}),
-              ...(f.powerDipAtBlock !== null ? { powerDipAtBlock: f.powerDipAtBlock } : {}),
-              missBootWindow: f.missBootWindow,
-            },
-          },
-        },
+        practiceSessionOptions(this.faults(), this.settings().baudRate, { bytes: v.bytes, version: v.image.version }),
         (e) => this.onPracticeEvent(e),
       );
       this.attach(link);

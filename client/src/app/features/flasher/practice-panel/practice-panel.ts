@@ -1,3 +1,4 @@
+import { crc16XmodemUpdate } from '@domain/crc16-xmodem';
 import { ChangeDetectionStrategy, Component, input, model, output } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -6,6 +7,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
+import type { PracticeSessionOptions } from '../practice-session';
 
 /** The faults a volunteer can set on the practice unit before powering it on. */
 export interface PracticeFaultsForm {
@@ -28,6 +30,27 @@ export const BIT_ERROR_RATES = [
   { value: 1e-5, label: '1 in 100,000 bits' },
   { value: 1e-4, label: '1 in 10,000 bits' },
 ];
+
+/**
+ * The practice session for the faults set on the panel: the unit expects the checked image (length,
+ * CRC-16/XMODEM, version); "wrong baud" runs the unit at another rate than the port.
+ */
+export function practiceSessionOptions(f: PracticeFaultsForm, baud: number, image: { bytes: Uint8Array; version: string }): PracticeSessionOptions {
+  return {
+    hostBaud: baud,
+    unitBaud: f.wrongBaud ? (baud === 115200 ? 57600 : 115200) : baud,
+    unit: {
+      installedVersion: 'old (damaged)',
+      expected: { length: image.bytes.length, crc16: crc16XmodemUpdate(image.bytes), version: image.version },
+      faults: {
+        ...(f.bitErrorRate ? { bitErrorRate: f.bitErrorRate } : {}),
+        ...(f.dropByteAt !== null ? { dropByteAt: f.dropByteAt } : {}),
+        ...(f.powerDipAtBlock !== null ? { powerDipAtBlock: f.powerDipAtBlock } : {}),
+        missBootWindow: f.missBootWindow,
+      },
+    },
+  };
+}
 
 /** The practice unit's panel: clearly a simulation, with the faults it can play. */
 @Component({
