@@ -8,7 +8,8 @@
 //    ticket is back where they were last told it was (an undo, or a move and its way back) no
 //    mail is sent at all.
 // A mail the worker has already claimed (locked_until in the future) is on its way: it counts as
-// told, and the next move starts from there. Everything happens in the caller's transaction.
+// told, and the next move starts from there. Everything happens in the caller's transaction, and
+// takes no lock but on the pending row it withdraws (so concurrent moves cannot deadlock here).
 import { Op, type Transaction } from 'sequelize';
 import type { TicketState } from '../../domain/workflow';
 import { isState } from '../../domain/workflow';
@@ -41,22 +42,21 @@ export type MoveMailOutcome = { queued: number; replaced: number } | { queued: n
 
 export async function queueMoveMail(transaction: Transaction, input: MoveMailInput): Promise<MoveMailOutcome> {
   const key = moveMailKey(input.ticketId);
-  // Pending and not claimed by a worker: still ours to replace. FOR UPDATE, so a worker's claim
-  // (SKIP LOCKED) passes these rows by until this transaction ends.
-  const pending = await Outbox.findAll({
-    where: {
-      coalesceKey: key,
-      status: 'pending',
-      [Op.or]: [{ lockedUntil: null }, { lockedUntil: { [Op.lt]: input.now } }],
-    },
-    order: [['id', 'ASC']],
-    lock: transaction.LOCK.UPDATE,
-    transaction,
-  });
-  const base = pending.find((row) => isState(row.coalesceBase))?.coalesceBase;
-  const told: TicketState = isState(base) ? base : input.from;
-  if (pending.length) await Outbox.destroy({ where: { id: pending.map((row) => row.id) }, transaction });
-  if (!input.notify || told === input.current) return { queued: null, replaced: pending.length };
+  // A plain read (no FOR UPDATE): a locking read of a key with no row takes a gap lock, and two
+  // moves of different tickets inserting into that gap would deadlock. The pending row is then
+  // deleted by primary key, re-checking that no worker has claimed it meanwhile.
+  const unclaimed = { status: 'pending' as const, [Op.or]: [{ lockedUntil: null }, { lockedUntil: { [Op.lt]: input.now } }] };
+  const pending = await Outbox.findAll({ where: { coalesceKey: key, ...unclaimed }, order: [['id', 'ASC']], transaction });
+  let told: TicketState = input.from;
+  let replaced = 0;
+  if (pending.length) {
+    replaced = await Outbox.destroy({ where: { id: pending.map((row) => row.id), ...unclaimed }, transaction });
+    // All withdrawn: the owner still knows what the first pending mail started from. Otherwise a
+    // worker has claimed it and it is on its way: the owner is being told the state before this change.
+    const base = pending.find((row) => isState(row.coalesceBase))?.coalesceBase;
+    if (replaced === pending.length && isState(base)) told = base;
+  }
+  if (!input.notify || told === input.current) return { queued: null, replaced };
   const mail = await input.compose(told, input.current);
   const id = await enqueueMail(
     transaction,
@@ -71,5 +71,5 @@ export async function queueMoveMail(transaction: Transaction, input: MoveMailInp
     },
     input.now,
   );
-  return { queued: id, replaced: pending.length };
+  return { queued: id, replaced };
 }
