@@ -7,7 +7,16 @@ import { Role } from '../../../core/auth/auth.models';
 import { SessionStore } from '../../../core/auth/session-store';
 import { Notifier } from '../../../core/notifier';
 import { TicketDetail } from '../ticket.models';
+import { Component, input, output } from '@angular/core';
+import { BenchRecords } from '../../bench-records/bench-records/bench-records';
 import { TicketPage } from './ticket-page';
+
+/** The bench records (repair log, test sheets, hand-back) load their own data; their own specs test them. */
+@Component({ selector: 'rw-bench-records', template: '' })
+class BenchRecordsStub {
+  readonly ticket = input<TicketDetail>();
+  readonly changed = output<void>();
+}
 
 function detail(extra: Partial<TicketDetail> = {}): TicketDetail {
   return {
@@ -65,6 +74,7 @@ describe('TicketPage', () => {
         { provide: Notifier, useValue: { info: vi.fn(), error: vi.fn() } },
       ],
     });
+    TestBed.overrideComponent(TicketPage, { remove: { imports: [BenchRecords] }, add: { imports: [BenchRecordsStub] } });
     TestBed.inject(SessionStore).set({ id: 3, email: 't@kestrelfen.example', displayName: 'Tobin Marsh', callSign: null, roles });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(TicketPage);
