@@ -104,9 +104,18 @@ test('repair log, a failed then a passed test sheet, return and hand-back; Close
 });
 
 test('an admin edits a test limit with its source', async ({ page }) => {
+  test.setTimeout(120_000);
   await signIn(page, DEMO.admin);
   await page.goto('/admin/test-limits');
   await expect(page.getByRole('heading', { name: 'Test limits' })).toBeVisible();
-  await expect(page.getByText(/Common practice: SWR at most 1\.5:1/).first()).toBeVisible();
+  const swr = page.locator('mat-card').filter({ hasText: 'Highest SWR into the dummy load' });
+  await expect(swr.getByLabel('Source')).toHaveValue(/Common practice: SWR at most 1\.5:1/);
   await page.screenshot({ path: `${SCREENSHOTS}/test-limits.png`, fullPage: true });
+  // The same figure, now with the club's own source (the verdicts of other tests do not change).
+  await swr.getByLabel('Source').fill('Club rule: SWR at most 1.5:1 into the bench dummy load (committee, 2026)');
+  const save = page.getByRole('button', { name: 'Save the limits' });
+  await save.scrollIntoViewIfNeeded();
+  await save.click();
+  await expect(swr.getByText('Set by the club.')).toBeVisible();
+  await expect(swr.getByLabel('Source')).toHaveValue(/Club rule/);
 });

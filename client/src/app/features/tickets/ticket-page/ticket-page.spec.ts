@@ -10,7 +10,16 @@ import { Notifier } from '../../../core/notifier';
 import { TicketDetail } from '../ticket.models';
 import { of } from 'rxjs';
 import { MovesApi } from '../../moves/moves-api';
+import { Component, input, output } from '@angular/core';
+import { BenchRecords } from '../../bench-records/bench-records/bench-records';
 import { TicketPage } from './ticket-page';
+
+/** The bench records (repair log, test sheets, hand-back) load their own data; their own specs test them. */
+@Component({ selector: 'rw-bench-records', template: '' })
+class BenchRecordsStub {
+  readonly ticket = input<TicketDetail>();
+  readonly changed = output<void>();
+}
 
 function detail(extra: Partial<TicketDetail> = {}): TicketDetail {
   return {
@@ -84,6 +93,7 @@ describe('TicketPage', () => {
         { provide: MovesApi, useValue: movesApi },
       ],
     });
+    TestBed.overrideComponent(TicketPage, { remove: { imports: [BenchRecords] }, add: { imports: [BenchRecordsStub] } });
     TestBed.inject(SessionStore).set({ id: 3, email: 't@kestrelfen.example', displayName: 'Tobin Marsh', callSign: null, roles });
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(TicketPage);
