@@ -8,6 +8,13 @@ import { SessionStore } from '../../../core/auth/session-store';
 import { Notifier } from '../../../core/notifier';
 import { TicketDetail } from '../ticket.models';
 import { TicketPage } from './ticket-page';
+import { Component, input } from '@angular/core';
+import { TicketLedger } from '../../payments/ticket-ledger/ticket-ledger';
+
+@Component({ selector: 'rw-ticket-ledger', template: '' })
+class LedgerStandIn {
+  readonly ticket = input<TicketDetail>();
+}
 
 function detail(extra: Partial<TicketDetail> = {}): TicketDetail {
   return {
@@ -57,6 +64,8 @@ describe('TicketPage', () => {
   let root: HTMLElement;
 
   async function setup(roles: Role[]) {
+    // The fees section has its own spec (features/payments/ticket-ledger); here it is a stand-in.
+    TestBed.overrideComponent(TicketPage, { remove: { imports: [TicketLedger] }, add: { imports: [LedgerStandIn] } });
     TestBed.configureTestingModule({
       providers: [
         provideHttpClient(),
@@ -72,11 +81,6 @@ describe('TicketPage', () => {
     root = fixture.nativeElement;
     fixture.detectChanges();
     http.expectOne('/api/tickets/RW-0007').flush(detail());
-    await fixture.whenStable();
-    // The fees section (features/payments) loads the ticket's ledger, and for the bench the fee schedule.
-    const empty = { currency: 'GBP', charges: [], payments: [], totals: { charges: 0, waivers: 0, payments: 0, refunds: 0 }, balance: 0, settled: true };
-    for (const req of http.match((r) => r.url === '/api/tickets/RW-0007/ledger')) req.flush(empty);
-    for (const req of http.match((r) => r.url === '/api/fees')) req.flush({ currency: 'GBP', today: '2026-12-02', items: [] });
     await fixture.whenStable();
   }
 
