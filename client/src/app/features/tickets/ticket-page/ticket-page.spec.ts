@@ -13,6 +13,12 @@ import { MovesApi } from '../../moves/moves-api';
 import { Component, input, output } from '@angular/core';
 import { BenchRecords } from '../../bench-records/bench-records/bench-records';
 import { TicketPage } from './ticket-page';
+import { TicketLedger } from '../../payments/ticket-ledger/ticket-ledger';
+
+@Component({ selector: 'rw-ticket-ledger', template: '' })
+class LedgerStandIn {
+  readonly ticket = input<TicketDetail>();
+}
 
 /** The bench records (repair log, test sheets, hand-back) load their own data; their own specs test them. */
 @Component({ selector: 'rw-bench-records', template: '' })
@@ -83,6 +89,8 @@ describe('TicketPage', () => {
       technicians: () => of([{ id: 3, displayName: 'Tobin Marsh', callSign: null }]),
       undo: vi.fn(() => of(detail({ version: 7 }))),
     };
+    // The fees section has its own spec (features/payments/ticket-ledger); here it is a stand-in.
+    TestBed.overrideComponent(TicketPage, { remove: { imports: [TicketLedger] }, add: { imports: [LedgerStandIn] } });
     TestBed.configureTestingModule({
       providers: [
         provideHttpClient(),
@@ -102,11 +110,6 @@ describe('TicketPage', () => {
     fixture.detectChanges();
     http.expectOne('/api/tickets/RW-0007').flush(ticket);
     await flushSections();
-    await fixture.whenStable();
-    // The fees section (features/payments) loads the ticket's ledger, and for the bench the fee schedule.
-    const empty = { currency: 'GBP', charges: [], payments: [], totals: { charges: 0, waivers: 0, payments: 0, refunds: 0 }, balance: 0, settled: true };
-    for (const req of http.match((r) => r.url === '/api/tickets/RW-0007/ledger')) req.flush(empty);
-    for (const req of http.match((r) => r.url === '/api/fees')) req.flush({ currency: 'GBP', today: '2026-12-02', items: [] });
     await fixture.whenStable();
   }
 
