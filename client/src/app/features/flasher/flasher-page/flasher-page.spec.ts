@@ -19,7 +19,7 @@ const ABC_SHA256 = 'ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f200
 const ticket: TicketDetail = {
   id: 42, tag: 'RW-0042', equipmentKind: 'transceiver', makeModel: 'Fenwick Kestrel 7', ownerName: 'Ivo Lindqvist',
   state: 'reflash', stateSince: '2026-12-01T19:00:00Z', createdAt: '2026-11-29T02:59:00Z', version: 3, serialNumber: null,
-  units: ['display head'], faultReported: 'Display dark.', accessories: [], firmwareVersions: null, reflashConsent: true,
+  units: ['display head'], faultReported: 'Display dark.', symptoms: ['display_dark'], accessoriesNote: null, updatesBy: 'none', technicianId: 3, previousState: 'diagnosis', undo: null, accessories: [], firmwareVersions: null, reflashConsent: true,
   notifyByEmail: false, ownerEmail: 'ivo@fenmail.example', ownerPhone: null, ownerCallSign: null, technicianName: 'Tobin Marsh',
   awaitingApproval: false, partsOnOrder: false, events: [], moves: STATES.map((to) => ({ to, allowed: false, reason: 'x' })),
 };
