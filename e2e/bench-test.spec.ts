@@ -1,11 +1,13 @@
 // Repair, bench test and hand-back, end to end: a technician logs repair work and a part, records a
 // failed test sheet (the ticket goes back to Repair), then a passed one (the owner gets the report
-// by e-mail), moves the ticket to Return and fills the returned-items checklist. Closing stays
-// refused until fees are settled (the fees feature has not landed).
+// by e-mail), moves the ticket to Return and fills the returned-items checklist. Closing is
+// refused while a bench fee is due, and allowed once the treasurer records its payment.
 import { expect, test } from '@playwright/test';
 import { DEMO, MAIL_URL, SCREENSHOTS, signIn, waitForMail } from './support';
 
-test('repair log, a failed then a passed test sheet, return and hand-back; Close waits for fees', async ({ page, context }) => {
+const TREASURER = { email: 'treasurer@kestrelfen.example', password: 'bench-demo-treasurer' };
+
+test('repair log, a failed then a passed test sheet, return and hand-back; Close waits for fees', async ({ page, context, browser }) => {
   test.setTimeout(120_000);
   await signIn(page, DEMO.technician);
   const stamp = Date.now().toString(36);
@@ -94,13 +96,37 @@ test('repair log, a failed then a passed test sheet, return and hand-back; Close
   await expect(page.getByText(/Handed back to Ebba Strand/)).toBeVisible();
   await page.screenshot({ path: `${SCREENSHOTS}/hand-back.png`, fullPage: true });
 
-  // Close is refused for fees (the checklist is done): the button says why, and so does the server.
+  // A bench fee is due: Close is refused for fees (the checklist is done), on the page and on the server.
+  const fees = await (await page.request.get('/api/fees')).json();
+  const diagnosisFee = fees.items.find((i: { code: string }) => i.code === 'diagnosis');
+  const charged = await page.request.post(`/api/tickets/${ticket.tag}/ledger/charges`, {
+    headers: { 'X-XSRF-TOKEN': await xsrf() },
+    data: { feeItemId: diagnosisFee.id, quantity: 1 },
+  });
+  expect(charged.status()).toBe(201);
+  const due = (await charged.json()).balance as number;
+  await page.reload();
   await expect(page.getByText(/Fees are not settled yet/)).toBeVisible();
   await expect(page.getByRole('button', { name: 'Move to Closed' })).toBeDisabled();
   const current = await (await page.request.get(`/api/tickets/${ticket.tag}`)).json();
   const close = await page.request.post(`/api/tickets/${ticket.tag}/moves`, { headers: { 'X-XSRF-TOKEN': await xsrf() }, data: { to: 'closed', version: current.version } });
   expect(close.status()).toBe(422);
   expect((await close.json()).error.message).toMatch(/Fees are not settled/);
+
+  // The treasurer records the cash the owner paid at the bench; the balance is zero and the ticket closes.
+  const treasurer = await browser.newContext();
+  const till = await treasurer.newPage();
+  await signIn(till, TREASURER);
+  const tillXsrf = (await treasurer.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
+  const paid = await till.request.post(`/api/tickets/${ticket.tag}/ledger/payments`, {
+    headers: { 'X-XSRF-TOKEN': tillXsrf },
+    data: { method: 'cash', amount: due, reference: `Cash book ${stamp}` },
+  });
+  expect(paid.status()).toBe(201);
+  await treasurer.close();
+  await page.reload();
+  await page.getByRole('button', { name: 'Move to Closed' }).click();
+  await expect(page.locator('rw-state-chip').first()).toContainText('Closed', { timeout: 30_000 });
 });
 
 test('an admin edits a test limit with its source', async ({ page }) => {
