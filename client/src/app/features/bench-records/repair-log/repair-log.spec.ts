@@ -17,6 +17,8 @@ describe('RepairLog', () => {
       const kind = req.request.params.get('kind');
       req.flush({ ...VIEW, work: kind === 'work' ? { items: [], total: 0, page: 1, pageSize: 10 } : null, parts: kind === 'parts' ? { items: [], total: 0, page: 1, pageSize: 10 } : null });
     }
+    // The repair photos (features/tickets/ticket-photos, its own spec) load their own list.
+    for (const req of http.match((r) => r.method === 'GET' && /\/api\/tickets\/RW-0042\/photos(\?|$)/.test(r.urlWithParams))) req.flush({ items: [] });
   }
 
   afterEach(() => http.verify());

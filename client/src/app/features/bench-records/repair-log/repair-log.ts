@@ -19,6 +19,7 @@ import { TicketDetail } from '../../tickets/ticket.models';
 import { BenchRecordsApi } from '../bench-records-api';
 import { formatMinor, moneyValidator, toMinorUnits } from '../bench-records-forms';
 import { RepairPartEntry, RepairWorkEntry } from '../bench-records.models';
+import { TicketPhotos } from '../../tickets/ticket-photos/ticket-photos';
 
 /** "95 min" → "1 h 35 min". */
 export function minutesText(minutes: number): string {
@@ -43,6 +44,7 @@ export function minutesText(minutes: number): string {
     MatInputModule,
     MatSortModule,
     MatTableModule,
+    TicketPhotos,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './repair-log.html',

@@ -120,8 +120,9 @@ describe('TicketPage', () => {
       TestBed.tick();
       await new Promise((resolve) => setTimeout(resolve, 0));
     }
-    for (const r of http.match((req) => /\/photos\?stage=intake$/.test(req.urlWithParams))) r.flush({ items: [] });
+    for (const r of http.match((req) => /\/photos\?stage=intake$/.test(req.urlWithParams))) if (!r.cancelled) r.flush({ items: [] });
     for (const r of http.match((req) => /\/(quotes|notes|diagnosis)$/.test(req.url))) {
+      if (r.cancelled) continue;
       if (r.request.url.endsWith('/quotes')) r.flush({ quotes: [], settings: { currency: 'GBP', approvalThresholdMinor: 5000 }, canWrite: false, reason: null });
       else if (r.request.url.endsWith('/notes')) r.flush({ items: [], total: 0, page: 1, pageSize: 10 });
       else {
@@ -223,12 +224,14 @@ describe('TicketPage', () => {
     Array.from(root.querySelectorAll<HTMLButtonElement>('.move-list button')).find((b) => b.textContent?.includes('Repair'))!.click();
     const until = new Date(Date.now() + 10_000).toISOString();
     http.expectOne('/api/tickets/RW-0007/moves').flush(detail({ state: 'repair', version: 6, undo: { eventId: 31, fromState: 'diagnosis', toState: 'repair', until } }));
+    await flushSections();
     await fixture.whenStable();
     expect(notifier.offer).toHaveBeenCalledWith('RW-0007 moved to Repair.', 'Undo', expect.any(Number));
     const window = notifier.offer.mock.calls[0][2] as number;
     expect(window).toBeGreaterThan(7_000);
     expect(window).toBeLessThanOrEqual(9_000);
     expect(movesApi.undo).toHaveBeenCalledWith('RW-0007', 31, 6);
+    await flushSections();
     await fixture.whenStable();
     expect(root.querySelector('rw-state-chip')?.textContent).toContain('Diagnosis');
     expect(notifier.info).toHaveBeenCalledWith('Move undone: RW-0007 is back in Diagnosis.');
