@@ -109,6 +109,7 @@ const ACCESS: Record<string, Actor[]> = {
   // The owner's links need no account: the random token in the path is the key (a wrong one: 404).
   'GET /api/owner/status/:tag/:token': ACTORS,
   'POST /api/owner/status/:tag/:token/consent': ACTORS,
+  'POST /api/owner/status/:tag/:token/checkout': ACTORS,
   'GET /api/owner/approval/:tag/:token': ACTORS,
   'POST /api/owner/approval/:tag/:token': ACTORS,
   'GET /api/fees': SIGNED_IN,

@@ -159,6 +159,9 @@ export interface OwnerStatusView {
   canGiveConsent: boolean;
   /** A quote that waits for the owner (the approval link came in its own e-mail). */
   pendingQuote: Quote | null;
+  /** What the owner owes on the ticket, in integer minor units of `currency` (0: nothing). */
+  balanceDueMinor: number;
+  currency: string;
   timeline: OwnerTimelineEntry[];
 }
 

@@ -10,7 +10,7 @@ import type { AppDeps } from '../../deps';
 import { AppError, parseInput } from '../../errors';
 import { addressKey, SqlRateLimitStore } from '../auth/throttle';
 import { decisionSchema, ownerLinkParams } from './owner-links.schemas';
-import { ownerApproval, ownerDecides, ownerGivesConsent, ownerStatus } from './owner-links.service';
+import { ownerApproval, ownerCheckout, ownerDecides, ownerGivesConsent, ownerStatus } from './owner-links.service';
 
 export function ownerLinkLimiter(deps: Pick<AppDeps, 'sequelize' | 'config'>) {
   return rateLimit({
@@ -39,6 +39,10 @@ export function createOwnerLinksRouter(deps: Pick<AppDeps, 'sequelize' | 'config
 
   router.post('/status/:tag/:token/consent', async (req, res) => {
     res.json(await ownerGivesConsent(deps, parseInput(ownerLinkParams, req.params)));
+  });
+
+  router.post('/status/:tag/:token/checkout', async (req, res) => {
+    res.status(201).json(await ownerCheckout(deps, parseInput(ownerLinkParams, req.params)));
   });
 
   router.get('/approval/:tag/:token', async (req, res) => {

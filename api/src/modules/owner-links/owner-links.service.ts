@@ -7,6 +7,9 @@ import type { AppDeps } from '../../deps';
 import { AppError, ConflictError, RuleError } from '../../errors';
 import { checkMove, STATE_LABELS, type TicketState } from '../../domain/workflow';
 import type { OwnerApprovalView, OwnerStatusView } from '../../contracts/owner-records';
+import type { CheckoutDto } from '../../contracts/payments';
+import { clubMoney, ticketBalance } from '../payments/ledger.service';
+import { startTicketCheckout } from '../payments/checkout.service';
 import { bumpBoardRevision } from '../board/board-revision';
 import { readClubName } from '../club/club-settings.service';
 import { TicketEvent } from '../tickets/ticket.model';
@@ -35,10 +38,12 @@ export const NEXT_STEPS: Record<TicketState, string> = {
 /** GET /api/owner/status/:tag/:token */
 export async function ownerStatus(deps: OwnerLinksDeps, input: { tag: string; token: string }): Promise<OwnerStatusView> {
   const { ticket } = await openOwnerLink({ ...input, purpose: 'status' }, deps.clock());
-  const [events, pending, clubName] = await Promise.all([
+  const [events, pending, clubName, balance, money] = await Promise.all([
     TicketEvent.findAll({ where: { ticketId: ticket.id, ownerVisible: true }, order: [['createdAt', 'ASC'], ['id', 'ASC']] }),
     pendingQuoteOf(ticket.id),
     readClubName(),
+    ticketBalance(ticket.id),
+    clubMoney(deps.sequelize),
   ]);
   return {
     tag: formatTag(ticket.id),
@@ -50,6 +55,8 @@ export async function ownerStatus(deps: OwnerLinksDeps, input: { tag: string; to
     reflashConsent: ticket.reflashConsent,
     canGiveConsent: !ticket.reflashConsent && ticket.state !== 'closed' && ticket.state !== 'return',
     pendingQuote: pending ? toQuoteDto(pending) : null,
+    balanceDueMinor: Math.max(0, balance),
+    currency: money.currency,
     timeline: events.map((e) => ({ at: new Date(e.createdAt).toISOString(), kind: e.kind, fromState: e.fromState, toState: e.toState, note: e.note })),
   };
 }
@@ -66,6 +73,20 @@ export async function ownerGivesConsent(deps: OwnerLinksDeps, input: { tag: stri
     await recordConsentIn(deps, transaction, ticket, { method: 'owner_link', recordedBy: null, note: null }, now);
   });
   return ownerStatus(deps, input);
+}
+
+/**
+ * POST /api/owner/status/:tag/:token/checkout: the owner pays the ticket's balance online through
+ * their status link (no account), on the payment provider's checkout page; back to the same page.
+ */
+export async function ownerCheckout(deps: OwnerLinksDeps, input: { tag: string; token: string }): Promise<CheckoutDto> {
+  const { ticket } = await openOwnerLink({ ...input, purpose: 'status' }, deps.clock());
+  const page = `${deps.config.RW_PUBLIC_URL.replace(/\/$/, '')}/owner/status/${formatTag(ticket.id)}/${input.token}`;
+  return startTicketCheckout(deps, ticket.id, {
+    successUrl: `${page}?payment=done`,
+    cancelUrl: `${page}?payment=cancelled`,
+    customerEmail: ticket.ownerEmail ?? undefined,
+  });
 }
 
 /** GET /api/owner/approval/:tag/:token */

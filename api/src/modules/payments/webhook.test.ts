@@ -7,7 +7,8 @@ import assert from 'node:assert/strict';
 import { QueryTypes } from 'sequelize';
 import supertest from 'supertest';
 import { addCharge, deliverTo, eventsOf, openTicket, payAtFake, paymentsWorld, type PaymentsWorld } from '../../../test/payments-fixtures';
-import { tableSnapshot } from '../../../test/helpers';
+import { anonymous, tableSnapshot } from '../../../test/helpers';
+import { issueOwnerLink } from '../owner-links/owner-link-tokens';
 import { parseTag } from '../tickets/tag';
 import { startTicketCheckout } from './checkout.service';
 
@@ -48,6 +49,30 @@ async function paidTicket(): Promise<{ tag: string; events: Event[]; sessionId: 
 }
 
 describe('paying a balance online', () => {
+  it('the owner pays through the signed status link, with no account: balance shown, checkout made, paid once', async () => {
+    const tag = await openTicket(w.member);
+    const token = await w.t.sequelize.transaction((transaction) => issueOwnerLink(transaction, { purpose: 'status', ticketId: parseTag(tag)! }, new Date()));
+    const owner = await anonymous(w.t.app);
+    const zero = await owner.post(`/api/owner/status/${tag}/${token}/checkout`, {});
+    assert.equal(zero.status, 422);
+    assert.equal(zero.body.error.code, 'nothing_to_pay');
+    await addCharge(w.tech, tag, { feeItemId: w.fees.diagnosis, quantity: 1 });
+    const status = await owner.get(`/api/owner/status/${tag}/${token}`);
+    assert.equal(status.status, 200, status.text);
+    assert.ok(status.body.balanceDueMinor > 0, 'the status page shows what is owed');
+    // A changed token is refused, and so is another ticket's tag with this token.
+    assert.equal((await owner.post(`/api/owner/status/${tag}/${token.slice(0, -2)}xx/checkout`, {})).status, 404);
+    const res = await owner.post(`/api/owner/status/${tag}/${token}/checkout`, {});
+    assert.equal(res.status, 201, res.text);
+    assert.equal(res.body.amount, status.body.balanceDueMinor);
+    assert.match(res.body.url, /\/checkout\/cs_test_/);
+    assert.equal((await payAtFake(w.fake, res.body.url)).status, 200);
+    const sessionId = res.body.url.split('/').pop();
+    for (const e of eventsOf(w.fake, sessionId) as Event[]) await deliverTo(w.t.app, e);
+    assert.equal(await succeeded(tag), 1);
+    assert.equal((await owner.get(`/api/owner/status/${tag}/${token}`)).body.balanceDueMinor, 0);
+  });
+
   it('the owner gets a checkout for the whole balance; others may not; a zero balance cannot be paid', async () => {
     const tag = await openTicket(w.member);
     const before = await tableSnapshot(w.t.sequelize);

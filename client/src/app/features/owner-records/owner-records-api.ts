@@ -2,6 +2,7 @@ import { HttpClient, HttpContext } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { Observable } from 'rxjs';
 import { Page } from '@contracts/lists';
+import type { CheckoutDto } from '@contracts/payments';
 import type {
   DiagnosisRecord,
   NoteAudience,
@@ -58,6 +59,10 @@ export class OwnerRecordsApi {
   }
   ownerConsent(tag: string, token: string): Observable<OwnerStatusView> {
     return this.http.post<OwnerStatusView>(`${link('status', tag, token)}/consent`, {}, own());
+  }
+  /** Starts paying the balance on the provider's checkout page; the answer's `url` is where to go. */
+  ownerCheckout(tag: string, token: string): Observable<CheckoutDto> {
+    return this.http.post<CheckoutDto>(`${link('status', tag, token)}/checkout`, {}, own());
   }
   ownerApproval(tag: string, token: string): Observable<OwnerApprovalView> {
     return this.http.get<OwnerApprovalView>(link('approval', tag, token), own());

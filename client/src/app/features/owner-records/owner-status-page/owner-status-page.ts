@@ -55,6 +55,23 @@ export class OwnerStatusPage {
   protected readonly error = signal('');
   protected readonly loadError = () => readApiError(this.status.error()).message;
 
+  protected readonly paying = signal(false);
+  protected readonly payError = signal('');
+
+  /** Off to the payment provider's checkout page for the whole balance; it comes back to this page. */
+  protected pay(): void {
+    if (this.paying()) return;
+    this.paying.set(true);
+    this.payError.set('');
+    this.api.ownerCheckout(this.tag(), this.token()).subscribe({
+      next: (c) => window.location.assign(c.url),
+      error: (err: unknown) => {
+        this.paying.set(false);
+        this.payError.set(readApiError(err).message);
+      },
+    });
+  }
+
   protected giveConsent(): void {
     if (this.consenting()) return;
     this.consenting.set(true);
