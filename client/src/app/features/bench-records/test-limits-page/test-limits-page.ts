@@ -92,6 +92,8 @@ export class TestLimitsPage {
     this.submitter.submit(
       () => this.api.updateLimits(this.changes()),
       (view) => {
+        // The page reads which limits the club set from the loaded view: show the saved one at once.
+        this.limits.value.set(view);
         this.fill(view);
         this.saved.set(view);
         this.notifier.info('Test limits saved. New test sheets are judged by them; saved sheets keep the limits they were judged by.');
